@@ -1,0 +1,67 @@
+import { error, redirect, type Handle, type HandleServerError, type ServerInit } from '@sveltejs/kit';
+import { sequence } from '@sveltejs/kit/hooks';
+import { rolesFor } from '$lib/roles';
+import { closeDb, getDb } from '$lib/server/db';
+import { DataDirLockedError } from '$lib/server/db/lock';
+import { resolveCaller } from '$lib/server/auth/session';
+
+export const init: ServerInit = async () => {
+	try {
+		await getDb();
+	} catch (e) {
+		if (e instanceof DataDirLockedError) {
+			console.error(`\nClearpitch cannot start: ${e.message}\n`);
+			process.exit(75);
+		}
+		throw e;
+	}
+	process.once('sveltekit:shutdown', () => {
+		void closeDb();
+	});
+};
+
+const PUBLIC = ['/sign-in', '/tiles/', '/api/health', '/favicon.svg'];
+
+const handleSession: Handle = async ({ event, resolve }) => {
+	const { user, sessionId } = await resolveCaller(event);
+	event.locals.user = user;
+	event.locals.sessionId = sessionId;
+	return resolve(event);
+};
+
+/** One place decides who may open what; each load and endpoint checks again. */
+const guardRoutes: Handle = async ({ event, resolve }) => {
+	const path = event.url.pathname;
+	if (PUBLIC.some((p) => path === p || (p.endsWith('/') && path.startsWith(p)))) {
+		return resolve(event);
+	}
+	if (path.startsWith('/_app/')) return resolve(event);
+	const user = event.locals.user;
+	const isApi = path.startsWith('/api/');
+	if (!user) {
+		if (isApi) error(401, 'Sign in first, or send an API token as "Authorization: Bearer …".');
+		redirect(303, `/sign-in?next=${encodeURIComponent(path + event.url.search)}`);
+	}
+	const roles = rolesFor(path);
+	if (!roles || !roles.includes(user.role)) {
+		error(403, `Your role (${user.role}) can't open this page.`);
+	}
+	// Bearer tokens are for the API only; a token never opens the app's pages.
+	if (user.via === 'token' && !isApi) error(403, 'API tokens open the API only.');
+	// Cross-origin JSON writes: kit's csrf check covers forms only.
+	if (isApi && !['GET', 'HEAD', 'OPTIONS'].includes(event.request.method)) {
+		const origin = event.request.headers.get('origin');
+		if (user.via === 'session' && origin && origin !== event.url.origin) {
+			error(403, 'Cross-origin requests are refused.');
+		}
+	}
+	return resolve(event);
+};
+
+export const handle = sequence(handleSession, guardRoutes);
+
+export const handleError: HandleServerError = ({ error: err, status, message }) => {
+	const errorId = crypto.randomUUID().slice(0, 8);
+	if (status >= 500) console.error(`[${errorId}]`, err);
+	return { message: status >= 500 ? 'Something went wrong on our side.' : message, errorId };
+};

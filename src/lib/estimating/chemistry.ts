@@ -1,0 +1,98 @@
+import type { RateCard } from './rate-card';
+import type { Batch } from './types';
+import { flOzToGal } from './units';
+import { strengthKey } from './growth';
+
+/** C1·V1 = C2·V2: volume of stock at C1 that gives V2 of mix at C2 (same basis, e.g. trade %). */
+export function stockVolume(targetPct: number, mixVolume: number, stockPct: number): number {
+	return (targetPct * mixVolume) / stockPct;
+}
+
+/** Gallons of finished mix for one facet: squares × coverage × applications (before waste). */
+export function facetMixGal(
+	squares: number,
+	coverageGalPerSquare: number,
+	applications: number
+): number {
+	return squares * coverageGalPerSquare * applications;
+}
+
+export interface MixNeed {
+	facetId: string;
+	strengthPct: number;
+	mixGal: number;
+}
+
+export interface BatchProblem {
+	strengthPct: number;
+	message: string;
+}
+
+/**
+ * One batch per distinct strength (common practice: a premix tank holds one strength).
+ * Waste is added per batch; stock by C1·V1 = C2·V2; surfactant by dose; water by difference,
+ * so stock + water + surfactant = mix exactly.
+ */
+export function buildBatches(
+	needs: readonly MixNeed[],
+	stockStrengthPct: number,
+	chem: RateCard['chemistry']
+): { batches: Batch[]; problems: BatchProblem[] } {
+	const byKey = new Map<number, { strengthPct: number; gal: number; facetIds: string[] }>();
+	for (const need of needs) {
+		const key = strengthKey(need.strengthPct);
+		let b = byKey.get(key);
+		if (!b) {
+			b = { strengthPct: key, gal: 0, facetIds: [] };
+			byKey.set(key, b);
+		}
+		b.gal += need.mixGal;
+		b.facetIds.push(need.facetId);
+	}
+	const groups = [...byKey.values()].sort((a, b) => a.strengthPct - b.strengthPct);
+	const batches: Batch[] = [];
+	const problems: BatchProblem[] = [];
+	const wasteFactor = 1 + chem.wastePct / 100;
+	for (const g of groups) {
+		const mixGal = g.gal * wasteFactor;
+		if (g.strengthPct >= stockStrengthPct) {
+			problems.push({
+				strengthPct: g.strengthPct,
+				message: `a ${g.strengthPct}% mix cannot be made from ${stockStrengthPct}% stock: the stock must be stronger than the mix`
+			});
+			continue;
+		}
+		const stockGal = stockVolume(g.strengthPct, mixGal, stockStrengthPct);
+		const surfactantOz = chem.surfactantOzPerGal * mixGal;
+		const waterGal = mixGal - stockGal - flOzToGal(surfactantOz);
+		if (waterGal < 0) {
+			problems.push({
+				strengthPct: g.strengthPct,
+				message: `a ${g.strengthPct}% mix from ${stockStrengthPct}% stock leaves no room for the surfactant dose; use stronger stock`
+			});
+			continue;
+		}
+		batches.push({
+			strengthPct: g.strengthPct,
+			mixGal,
+			stockGal,
+			waterGal,
+			surfactantOz,
+			facetIds: g.facetIds
+		});
+	}
+	return { batches, problems };
+}
+
+/** Plant pre-wet and post-rinse water, from eave length (where runoff lands). */
+export function waterForSite(
+	eaveLengthFt: number,
+	chem: RateCard['chemistry'],
+	noGutters: boolean
+): { preWetGal: number; rinseGal: number } {
+	const preWet = eaveLengthFt * chem.preWetGalPerEaveFt;
+	return {
+		preWetGal: noGutters ? preWet * chem.noGuttersPreWetMultiplier : preWet,
+		rinseGal: eaveLengthFt * chem.rinseGalPerEaveFt
+	};
+}

@@ -1,0 +1,462 @@
+import { accessRefusal, ladderPlacements, materialName, OSHA_STEEP_ROOF_RISE } from './access';
+import { buildBatches, facetMixGal, waterForSite, type MixNeed } from './chemistry';
+import { EstimateInputError, type EstimateIssue } from './errors';
+import { eaveLength, measureFacetPlan, type FacetPlan } from './geometry';
+import { applyTestSpot, EXPECTATIONS, suggestStrength } from './growth';
+import { applicationHours, jobLabour, ladderHours } from './labour';
+import { formatCents } from './money';
+import { NoteCollector } from './notes';
+import { pitchMultiplier } from './pitch';
+import { facetPriceCents, jobCost, jobPrice, marginPct } from './pricing';
+import type { RateCard } from './rate-card';
+import {
+	ACCESS_GRADES,
+	GROWTH_GRADES,
+	MATERIALS,
+	MAX_PITCH_RISE,
+	STORIES,
+	type EstimateInput,
+	type EstimateResult,
+	type FacetInput,
+	type FacetResult,
+	type LineItem
+} from './types';
+import { ft2ToSquares } from './units';
+
+export * from './types';
+export * from './errors';
+export { DEFAULT_RATE_CARD, cloneRateCard } from './rate-card';
+export type { RateCard, MaterialRate, GrowthRate, MultiplierPair, RangePcts } from './rate-card';
+export { pitchMultiplier, hipValleyFactor, rafterInchesPerFootRun, pitchAngleDeg } from './pitch';
+export { measureFacetPlan, ellipsoidAreaCorrection, eaveLength } from './geometry';
+export { stockVolume } from './chemistry';
+export { NOT_WALKABLE, accessRefusal } from './access';
+
+/** Above this the "stock" is unlikely to be sodium hypochlorite as sold (10–14% is usual). */
+const STRONGEST_USUAL_STOCK_PCT = 15;
+
+export type EstimateOutcome =
+	| { ok: true; value: EstimateResult }
+	| { ok: false; issues: EstimateIssue[] };
+
+/**
+ * Prices a roof plan with a rate card. Pure and deterministic.
+ * @throws EstimateInputError with every problem found (answer 400, one entry per issue path)
+ */
+export function estimate(input: EstimateInput, rateCard: RateCard): EstimateResult {
+	const r = tryEstimate(input, rateCard);
+	if (!r.ok) throw new EstimateInputError(r.issues);
+	return r.value;
+}
+
+const MATERIAL_SET: ReadonlySet<string> = new Set(MATERIALS);
+const GROWTH_SET: ReadonlySet<string> = new Set(GROWTH_GRADES);
+const ACCESS_SET: ReadonlySet<string> = new Set(ACCESS_GRADES);
+const STORY_SET: ReadonlySet<number> = new Set(STORIES);
+
+const isFiniteIn = (v: unknown, lo: number, hi: number): v is number =>
+	typeof v === 'number' && Number.isFinite(v) && v >= lo && v <= hi;
+
+/** Same as estimate() but returns the issues instead of throwing. */
+export function tryEstimate(input: EstimateInput, card: RateCard): EstimateOutcome {
+	const issues: EstimateIssue[] = [];
+	const issue = (path: EstimateIssue['path'], code: string, message: string) =>
+		issues.push({ path, code, message });
+
+	const facetsIn: FacetInput[] = Array.isArray(input?.facets) ? input.facets : [];
+	if (facetsIn.length === 0) issue(['facets'], 'no_facets', 'facets must list at least one facet');
+
+	const plans: Array<FacetPlan | null> = new Array(facetsIn.length);
+	const seenIds = new Set<string>();
+	for (let i = 0; i < facetsIn.length; i++) {
+		plans[i] = checkFacet(facetsIn[i], i, seenIds, issue);
+	}
+
+	const spot = input.testSpot;
+	if (spot !== undefined) {
+		if (!isFiniteIn(spot.strengthPct, 0, 100) || spot.strengthPct <= 0) {
+			issue(['testSpot', 'strengthPct'], 'invalid', 'testSpot.strengthPct must be a percentage above 0');
+		}
+		if (!isFiniteIn(spot.secondsToColourChange, 0, Infinity)) {
+			issue(
+				['testSpot', 'secondsToColourChange'],
+				'invalid',
+				'testSpot.secondsToColourChange must be a number of seconds, 0 or more'
+			);
+		}
+		spot.facetIds?.forEach((id, k) => {
+			if (!seenIds.has(id)) {
+				issue(['testSpot', 'facetIds', k], 'unknown_facet', `testSpot.facetIds names unknown facet "${id}"`);
+			}
+		});
+	}
+	const stockFromInput = input.stockStrengthPct !== undefined;
+	const stockStrengthPct = stockFromInput ? input.stockStrengthPct! : card.chemistry.stockStrengthPct;
+	const stockPath = stockFromInput ? ['stockStrengthPct'] : ['rateCard', 'chemistry', 'stockStrengthPct'];
+	if (!isFiniteIn(stockStrengthPct, 0, 100) || stockStrengthPct <= 0) {
+		issue(stockPath, 'invalid', 'stockStrengthPct must be the tested stock strength, above 0 and at most 100');
+	}
+	const discountRequested = input.discountPct ?? 0;
+	if (!isFiniteIn(discountRequested, 0, 100)) {
+		issue(['discountPct'], 'invalid', 'discountPct must be between 0 and 100');
+	}
+	const extras = input.extras ?? [];
+	extras.forEach((e, k) => {
+		if (!Number.isSafeInteger(e?.priceCents) || e.priceCents < 0) {
+			issue(['extras', k, 'priceCents'], 'invalid', 'extras priceCents must be whole cents, 0 or more');
+		}
+	});
+	if (issues.length > 0) return { ok: false, issues };
+
+	const warnings = new NoteCollector();
+	const expectations = new NoteCollector();
+	const spotFacets = spot?.facetIds ? new Set(spot.facetIds) : null;
+	const steepRise = card.steepPitch.thresholdRise;
+
+	const facets: FacetResult[] = new Array(facetsIn.length);
+	const facetLines: LineItem[] = new Array(facetsIn.length);
+	const needs: MixNeed[] = new Array(facetsIn.length);
+	let planAreaFt2 = 0;
+	let slopedAreaFt2 = 0;
+	let eaveLengthFt = 0;
+	let perimeterFt = 0;
+	let appHours = 0;
+	let placements = 0;
+	let anySteep = false;
+	let anyOshaSteep = false;
+	let anyLift = false;
+	let anyLadder = false;
+
+	for (let i = 0; i < facetsIn.length; i++) {
+		const f = facetsIn[i];
+		const plan = plans[i]!;
+		const mat = card.materials[f.material];
+		const gr = card.growth[f.growth];
+		const ac = card.access[f.access];
+		const st = card.stories[String(f.stories) as '1' | '2' | '3'];
+
+		const pitchMult = pitchMultiplier(f.pitch);
+		const sloped = plan.planAreaFt2 * pitchMult;
+		const squares = ft2ToSquares(sloped);
+		const steep = f.pitch > steepRise;
+
+		const suggested = suggestStrength(mat, gr);
+		const decision = applyTestSpot(
+			suggested,
+			mat,
+			spot && (!spotFacets || spotFacets.has(f.id)) ? spot : undefined,
+			card.testSpot
+		);
+		const mixGal = facetMixGal(squares, mat.coverageGalPerSquare, gr.applications);
+		const eave = eaveLength(plan.segmentLengthsFt, f.edges);
+		const ladders = ladderPlacements(f.access, eave.eaveLengthFt, card.ladder.eaveFtPerPlacement);
+		const hours =
+			applicationHours({
+				squares,
+				applications: gr.applications,
+				productionSquaresPerHour: mat.productionSquaresPerHour,
+				accessLabourMultiplier: ac.labourMultiplier,
+				storyLabourMultiplier: st.labourMultiplier,
+				growthLabourFactor: gr.labourFactor
+			});
+		const steepMult = steep ? card.steepPitch.priceMultiplier : 1;
+		const priceCents = facetPriceCents({
+			squares,
+			perSquareCents: mat.perSquareCents,
+			growthMultiplier: gr.priceMultiplier,
+			accessMultiplier: ac.priceMultiplier,
+			storyMultiplier: st.priceMultiplier,
+			steepMultiplier: steepMult
+		});
+
+		facets[i] = {
+			id: f.id,
+			...(f.label !== undefined ? { label: f.label } : {}),
+			material: f.material,
+			growth: f.growth,
+			access: f.access,
+			stories: f.stories,
+			pitch: f.pitch,
+			planAreaFt2: plan.planAreaFt2,
+			pitchMultiplier: pitchMult,
+			slopedAreaFt2: sloped,
+			squares,
+			mixStrengthPct: decision.strengthPct,
+			suggestedStrengthPct: decision.suggestedPct,
+			applications: gr.applications,
+			coverageGalPerSquare: mat.coverageGalPerSquare,
+			mixGal,
+			eaveLengthFt: eave.eaveLengthFt,
+			eaveEstimated: eave.estimated,
+			perimeterFt: plan.perimeterFt,
+			ladderPlacements: ladders,
+			labourHours: hours + ladderHours(ladders, card.ladder.setupMinutes),
+			steep,
+			priceCents
+		};
+		facetLines[i] = {
+			code: 'facet',
+			facetId: f.id,
+			label: f.label ?? `Facet ${f.id}`,
+			detail:
+				`${squares.toFixed(2)} sq × ${formatCents(mat.perSquareCents)}/sq (${materialName(f.material)})` +
+				` × ${gr.priceMultiplier} (${f.growth}) × ${ac.priceMultiplier} (${f.access})` +
+				` × ${st.priceMultiplier} (${f.stories} ${f.stories === 1 ? 'storey' : 'storeys'})` +
+				(steep ? ` × ${steepMult} (steep ${f.pitch}/12)` : ''),
+			amountCents: priceCents
+		};
+		needs[i] = { facetId: f.id, strengthPct: decision.strengthPct, mixGal };
+
+		planAreaFt2 += plan.planAreaFt2;
+		slopedAreaFt2 += sloped;
+		eaveLengthFt += eave.eaveLengthFt;
+		perimeterFt += plan.perimeterFt;
+		appHours += hours;
+		placements += ladders;
+		anySteep ||= steep;
+		anyOshaSteep ||= f.pitch > OSHA_STEEP_ROOF_RISE;
+		anyLift ||= f.access === 'lift';
+		anyLadder ||= f.access === 'ladder';
+
+		collectFacetNotes(f, i, eave.estimated, decision, warnings, expectations);
+	}
+
+	const chem = card.chemistry;
+	const { batches, problems } = buildBatches(needs, stockStrengthPct, chem);
+	if (problems.length > 0) {
+		return {
+			ok: false,
+			issues: problems.map((p) => ({
+				path: stockPath,
+				code: 'stock_too_weak',
+				message: `${p.message} (facets ${needs
+					.filter((n) => Math.abs(n.strengthPct - p.strengthPct) < 1e-6)
+					.map((n) => n.facetId)
+					.join(', ')})`
+			}))
+		};
+	}
+	if (stockStrengthPct > STRONGEST_USUAL_STOCK_PCT) {
+		warnings.add(
+			'chemistry.stock_unusual',
+			`stock at ${stockStrengthPct}% is stronger than sodium hypochlorite is usually sold (10–14%); re-test it before mixing`,
+			undefined,
+			stockPath.join('.')
+		);
+	}
+	let totalMixGal = 0;
+	let totalStockGal = 0;
+	let totalSurfactantOz = 0;
+	for (const b of batches) {
+		totalMixGal += b.mixGal;
+		totalStockGal += b.stockGal;
+		totalSurfactantOz += b.surfactantOz;
+	}
+	const flags = input.siteFlags ?? {};
+	const water = waterForSite(eaveLengthFt, chem, flags.noGutters === true);
+	collectJobNotes(flags, anyOshaSteep, anyLadder, warnings);
+
+	const squares = ft2ToSquares(slopedAreaFt2);
+	const labour = jobLabour(
+		{
+			applicationHours: appHours,
+			ladderPlacements: placements,
+			totalSquares: squares,
+			anySteep,
+			facetCount: facets.length
+		},
+		card
+	);
+	const price = jobPrice(
+		{
+			facetLines,
+			slopedAreaFt2,
+			anyLift,
+			extras,
+			discountPct: discountRequested,
+			measuredOnSite: input.measuredOnSite === true
+		},
+		card,
+		warnings
+	);
+	const cost = jobCost(
+		{
+			totalStockGal,
+			totalSurfactantOz,
+			stockStrengthPct,
+			labourCents: labour.costCents,
+			preTaxCents: price.preTaxCents
+		},
+		card
+	);
+
+	return {
+		ok: true,
+		value: {
+			facets,
+			totals: { planAreaFt2, slopedAreaFt2, squares, eaveLengthFt, perimeterFt },
+			chemistry: {
+				batches,
+				stockStrengthPct,
+				wastePct: chem.wastePct,
+				preWetGal: water.preWetGal,
+				rinseGal: water.rinseGal,
+				totalMixGal,
+				totalStockGal,
+				totalSurfactantOz
+			},
+			labour,
+			price,
+			cost,
+			marginPct: marginPct(price.preTaxCents, cost.totalCents),
+			expectations: expectations.list(),
+			warnings: warnings.list()
+		}
+	};
+}
+
+function checkFacet(
+	f: FacetInput,
+	i: number,
+	seenIds: Set<string>,
+	issue: (path: EstimateIssue['path'], code: string, message: string) => void
+): FacetPlan | null {
+	const at = (...rest: Array<string | number>) => ['facets', i, ...rest];
+	if (!f || typeof f !== 'object') {
+		issue(at(), 'invalid', 'facet must be an object');
+		return null;
+	}
+	if (typeof f.id !== 'string' || f.id.length === 0) {
+		issue(at('id'), 'invalid', 'facet id must be a non-empty string');
+	} else if (seenIds.has(f.id)) {
+		issue(at('id'), 'duplicate_id', `facet id "${f.id}" is used twice`);
+	} else {
+		seenIds.add(f.id);
+	}
+	if (!MATERIAL_SET.has(f.material)) {
+		issue(at('material'), 'invalid_enum', `material must be one of: ${MATERIALS.join(', ')}`);
+	}
+	if (!GROWTH_SET.has(f.growth)) {
+		issue(at('growth'), 'invalid_enum', `growth must be one of: ${GROWTH_GRADES.join(', ')}`);
+	}
+	if (!ACCESS_SET.has(f.access)) {
+		issue(at('access'), 'invalid_enum', `access must be one of: ${ACCESS_GRADES.join(', ')}`);
+	}
+	if (!STORY_SET.has(f.stories)) {
+		issue(at('stories'), 'invalid', 'stories must be 1, 2 or 3');
+	}
+	if (!isFiniteIn(f.pitch, 0, MAX_PITCH_RISE)) {
+		issue(at('pitch'), 'invalid', `pitch must be a rise per 12 between 0 and ${MAX_PITCH_RISE}`);
+	}
+	if (MATERIAL_SET.has(f.material) && ACCESS_SET.has(f.access)) {
+		const refusal = accessRefusal(f.material, f.access);
+		if (refusal) issue(at('access'), 'access_refused', refusal);
+	}
+	const r = measureFacetPlan(f.polygon);
+	if (!r.ok) {
+		for (const g of r.issues) issue(at(...g.path), g.code, g.message);
+		return null;
+	}
+	if (f.edges !== undefined) {
+		const segments = r.plan.segmentLengthsFt.length;
+		if (!Array.isArray(f.edges) || f.edges.length !== segments) {
+			issue(
+				at('edges'),
+				'edges_length',
+				`edges must give one label (or null) per ring segment: ${segments} expected`
+			);
+			return null;
+		}
+	}
+	return r.plan;
+}
+
+function collectFacetNotes(
+	f: FacetInput,
+	i: number,
+	eaveEstimated: boolean,
+	decision: ReturnType<typeof applyTestSpot>,
+	warnings: NoteCollector,
+	expectations: NoteCollector
+): void {
+	if (eaveEstimated) {
+		warnings.add(
+			'eave.estimated',
+			'eave length estimated as the longest unlabelled edge; label the eave edges for exact ladder set-ups and water',
+			f.id,
+			`facets.${i}.edges`
+		);
+	}
+	if (f.growth === 'G3' || f.growth === 'G4') expectations.add('growth.lichen', EXPECTATIONS.lichen, f.id);
+	if (f.growth === 'G4') expectations.add('growth.severe', EXPECTATIONS.severe, f.id);
+	if (f.material === 'clay_tile' || f.material === 'concrete_tile') {
+		expectations.add('material.tile_batch', EXPECTATIONS.tileBatch, f.id);
+	}
+	if (decision.effect === 'raised') {
+		expectations.add('test_spot.slow', EXPECTATIONS.slowTestSpot, f.id);
+		if (decision.capped) {
+			warnings.add(
+				'test_spot.capped',
+				"the test spot calls for a stronger mix than the material's maximum on the rate card; strength held at that maximum",
+				f.id
+			);
+		}
+	} else if (decision.effect === 'lowered') {
+		warnings.add(
+			'test_spot.lowered',
+			'the test spot changed colour quickly and rinsed clean: mix strength lowered one step',
+			f.id
+		);
+	}
+	if (f.material === 'wood_shake') {
+		warnings.add(
+			'material.wood_shake',
+			'sodium hypochlorite can damage wood shake fibres: keep to the lowest strength or use another chemistry as its label allows',
+			f.id
+		);
+	}
+	if (f.material === 'metal') {
+		warnings.add(
+			'material.metal',
+			'sodium hypochlorite corrodes metal: rinse metal roofs, flashing and gutters thoroughly, and mind the slick surface',
+			f.id
+		);
+	}
+}
+
+function collectJobNotes(
+	flags: NonNullable<EstimateInput['siteFlags']>,
+	anyOshaSteep: boolean,
+	anyLadder: boolean,
+	warnings: NoteCollector
+): void {
+	if (flags.noGutters) {
+		warnings.add(
+			'site.no_gutters',
+			'no gutters: runoff falls straight onto beds and ground. Soak plants and lawn before, rinse after, and keep runoff out of storm drains and ponds (extra pre-wet water allowed)',
+			undefined,
+			'siteFlags.noGutters'
+		);
+	}
+	if (flags.plantsToProtect) {
+		warnings.add(
+			'site.plants',
+			'plants to protect: pre-wet, cover sensitive plants and rinse them after the wash',
+			undefined,
+			'siteFlags.plantsToProtect'
+		);
+	}
+	if (anyOshaSteep) {
+		warnings.add(
+			'safety.steep',
+			`facets steeper than ${OSHA_STEEP_ROOF_RISE}/12 are steep roofs for fall protection: plan guardrails, nets or personal fall arrest; follow OSHA or the state plan and local codes`
+		);
+	}
+	if (anyLadder) {
+		warnings.add(
+			'safety.ladder',
+			'ladder work: set the foot a quarter of the working length out, extend 3 ft above the landing, and keep 10 ft from overhead power lines'
+		);
+	}
+}
+

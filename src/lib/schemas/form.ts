@@ -1,0 +1,19 @@
+import type { z } from 'zod';
+
+export type FieldErrors = Record<string, string>;
+
+/** Flattens zod issues to `{ "field.path": "first message" }` for forms and JSON bodies. */
+export function fieldErrors(error: z.ZodError): FieldErrors {
+	const out: FieldErrors = {};
+	for (const issue of error.issues) {
+		const key = issue.path.map(String).join('.') || '_';
+		out[key] ??= issue.message;
+	}
+	return out;
+}
+
+export function formObject(data: FormData): Record<string, string> {
+	const out: Record<string, string> = {};
+	for (const [k, v] of data) if (typeof v === 'string') out[k] = v;
+	return out;
+}

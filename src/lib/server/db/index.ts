@@ -1,0 +1,68 @@
+import { PGlite } from '@electric-sql/pglite';
+import { drizzle as drizzlePglite, type PgliteDatabase } from 'drizzle-orm/pglite';
+import { migrate as migratePglite } from 'drizzle-orm/pglite/migrator';
+import { drizzle as drizzlePg } from 'drizzle-orm/node-postgres';
+import { migrate as migratePg } from 'drizzle-orm/node-postgres/migrator';
+import pg from 'pg';
+import { env } from '../env';
+import { lockDataDir } from './lock';
+import * as schema from './schema';
+
+/** Both drivers expose the same query builder; we type against the PGlite one. */
+export type Db = PgliteDatabase<typeof schema>;
+
+type Opened = { db: Db; close: () => Promise<void>; kind: 'pglite' | 'postgres' };
+
+let opening: Promise<Opened> | undefined;
+
+async function open(): Promise<Opened> {
+	const url = env.databaseUrl;
+	if (url) {
+		const pool = new pg.Pool({ connectionString: url, max: 10 });
+		const db = drizzlePg(pool, { schema }) as unknown as Db;
+		await migratePg(db as never, { migrationsFolder: env.migrationsDir });
+		return { db, kind: 'postgres', close: () => pool.end() };
+	}
+	const dir = env.dataDir;
+	const release = lockDataDir(dir);
+	try {
+		const client = new PGlite(dir);
+		await client.waitReady;
+		const db = drizzlePglite(client, { schema });
+		await migratePglite(db, { migrationsFolder: env.migrationsDir });
+		return {
+			db,
+			kind: 'pglite',
+			close: async () => {
+				try {
+					await client.close();
+				} finally {
+					release();
+				}
+			}
+		};
+	} catch (e) {
+		release();
+		throw e;
+	}
+}
+
+/** Opens the database on first use (never at import: `vite build` imports this module). */
+export function getDb(): Promise<Db> {
+	opening ??= open();
+	return opening.then((o) => o.db);
+}
+
+export async function databaseKind(): Promise<Opened['kind']> {
+	opening ??= open();
+	return (await opening).kind;
+}
+
+export async function closeDb(): Promise<void> {
+	if (!opening) return;
+	const o = opening;
+	opening = undefined;
+	await (await o).close();
+}
+
+export { schema };

@@ -1,0 +1,11 @@
+import { pgTable, text } from 'drizzle-orm/pg-core';
+import { id, timestamps } from './columns';
+
+export const companies = pgTable('companies', {
+	id: id(),
+	name: text('name').notNull(),
+	/** XYZ template of a licensed imagery provider; null means the bundled sample imagery. */
+	imageryUrlTemplate: text('imagery_url_template'),
+	imageryAttribution: text('imagery_attribution'),
+	...timestamps
+});

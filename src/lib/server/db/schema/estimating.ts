@@ -1,0 +1,92 @@
+import {
+	index,
+	integer,
+	jsonb,
+	pgEnum,
+	pgTable,
+	text,
+	unique,
+	uuid,
+	boolean
+} from 'drizzle-orm/pg-core';
+import { id, timestamps } from './columns';
+import { companies } from './company';
+import { users } from './auth';
+import { sites } from './sites';
+
+/** A rate card is never edited in place: each save is a new version, older ones stay. */
+export const rateCards = pgTable(
+	'rate_cards',
+	{
+		id: id(),
+		companyId: uuid('company_id')
+			.notNull()
+			.references(() => companies.id),
+		version: integer('version').notNull(),
+		card: jsonb('card').notNull(),
+		isDefault: boolean('is_default').notNull().default(false),
+		note: text('note').notNull().default(''),
+		createdBy: uuid('created_by').references(() => users.id),
+		...timestamps
+	},
+	(t) => [unique('rate_cards_company_version').on(t.companyId, t.version)]
+);
+
+export const estimateStatusEnum = pgEnum('estimate_status', [
+	'draft',
+	'ready',
+	'sent',
+	'accepted',
+	'scheduled',
+	'done',
+	'paid',
+	'declined',
+	'expired'
+]);
+
+export const estimates = pgTable(
+	'estimates',
+	{
+		id: id(),
+		companyId: uuid('company_id')
+			.notNull()
+			.references(() => companies.id),
+		siteId: uuid('site_id').references(() => sites.id),
+		roofPlanId: uuid('roof_plan_id'),
+		status: estimateStatusEnum('status').notNull().default('draft'),
+		rateCardId: uuid('rate_card_id')
+			.notNull()
+			.references(() => rateCards.id),
+		rateCardVersion: integer('rate_card_version').notNull(),
+		/** The full request it was priced with, frozen. */
+		input: jsonb('input').notNull(),
+		/** The full model output, frozen: later rate changes never touch it. */
+		result: jsonb('result').notNull(),
+		totalCents: integer('total_cents').notNull(),
+		createdBy: uuid('created_by').references(() => users.id),
+		...timestamps
+	},
+	(t) => [index('estimates_company_idx').on(t.companyId), index('estimates_site_idx').on(t.siteId)]
+);
+
+/** A roof plan is versioned: a later site visit edits a copy. */
+export const roofPlans = pgTable(
+	'roof_plans',
+	{
+		id: id(),
+		companyId: uuid('company_id')
+			.notNull()
+			.references(() => companies.id),
+		siteId: uuid('site_id')
+			.notNull()
+			.references(() => sites.id),
+		version: integer('version').notNull(),
+		source: text('source').notNull().default('remote'),
+		/** GeoJSON FeatureCollection of facets with their properties. */
+		facets: jsonb('facets').notNull(),
+		note: text('note').notNull().default(''),
+		createdBy: uuid('created_by').references(() => users.id),
+		...timestamps
+	},
+	(t) => [unique('roof_plans_site_version').on(t.siteId, t.version)]
+);

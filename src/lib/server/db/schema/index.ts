@@ -1,0 +1,4 @@
+export * from './company';
+export * from './auth';
+export * from './sites';
+export * from './estimating';

@@ -1,0 +1,47 @@
+import { doublePrecision, index, jsonb, pgTable, text, uuid } from 'drizzle-orm/pg-core';
+import { id, timestamps } from './columns';
+import { companies } from './company';
+
+export const customers = pgTable('customers', {
+	id: id(),
+	companyId: uuid('company_id')
+		.notNull()
+		.references(() => companies.id),
+	name: text('name').notNull(),
+	email: text('email'),
+	phone: text('phone'),
+	notes: text('notes').notNull().default(''),
+	...timestamps
+});
+
+export type SiteFlags = {
+	noGutters?: boolean;
+	plantsToProtect?: boolean;
+	pool?: boolean;
+	powerLine?: boolean;
+};
+
+export const sites = pgTable(
+	'sites',
+	{
+		id: id(),
+		companyId: uuid('company_id')
+			.notNull()
+			.references(() => companies.id),
+		customerId: uuid('customer_id')
+			.notNull()
+			.references(() => customers.id),
+		address: text('address').notNull(),
+		lat: doublePrecision('lat').notNull(),
+		lon: doublePrecision('lon').notNull(),
+		notes: text('notes').notNull().default(''),
+		gateCode: text('gate_code'),
+		pets: text('pets'),
+		waterSource: text('water_source'),
+		flags: jsonb('flags').$type<SiteFlags>().notNull().default({}),
+		/** Which house of the bundled sample scene this site is, if any. */
+		sceneHouseId: text('scene_house_id'),
+		...timestamps
+	},
+	(t) => [index('sites_company_idx').on(t.companyId)]
+);

@@ -1,0 +1,14 @@
+import { navFor } from '$lib/roles';
+import { requireUser } from '$lib/server/auth/guard';
+import { getCompany } from '$lib/server/services/company';
+import type { LayoutServerLoad } from './$types';
+
+export const load: LayoutServerLoad = async (event) => {
+	const user = requireUser(event);
+	const company = await getCompany(user.companyId);
+	return {
+		user: { name: user.name, email: user.email, role: user.role },
+		company: { name: company?.name ?? 'Your company' },
+		nav: navFor(user.role)
+	};
+};

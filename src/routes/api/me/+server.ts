@@ -1,0 +1,8 @@
+import { json } from '@sveltejs/kit';
+import { requireUser } from '$lib/server/auth/guard';
+import type { RequestHandler } from './$types';
+
+export const GET: RequestHandler = (event) => {
+	const { id, name, email, role } = requireUser(event);
+	return json({ id, name, email, role });
+};

@@ -1,0 +1,92 @@
+import { spawn, execFileSync, type ChildProcess } from 'node:child_process';
+import fs from 'node:fs';
+import net from 'node:net';
+import path from 'node:path';
+
+export type TestServer = {
+	url: string;
+	port: number;
+	dataDir: string;
+	proc: ChildProcess;
+	log: () => string;
+	stop: () => Promise<void>;
+};
+
+export async function freePort(): Promise<number> {
+	return new Promise((resolve, reject) => {
+		const s = net.createServer();
+		s.listen(0, '127.0.0.1', () => {
+			const port = (s.address() as net.AddressInfo).port;
+			s.close(() => resolve(port));
+		});
+		s.on('error', reject);
+	});
+}
+
+/** A fresh data directory, migrated and seeded with the demo, for one test file. */
+export function seededDataDir(name: string): string {
+	const dir = path.resolve('tmp', 'data', `${name}-${process.pid}-${Date.now()}`);
+	fs.mkdirSync(path.dirname(dir), { recursive: true });
+	execFileSync('npx', ['tsx', 'scripts/seed-test.ts'], {
+		env: { ...process.env, CLEARPITCH_DATA_DIR: dir, DATABASE_URL: '' },
+		stdio: 'pipe'
+	});
+	return dir;
+}
+
+/** Starts the built server (`build/`) on a free port against `dataDir`. */
+export async function startServer(
+	dataDir: string,
+	extraEnv: Record<string, string> = {}
+): Promise<TestServer> {
+	if (!fs.existsSync('build/index.js')) throw new Error('Run `npm run build` before these tests.');
+	const port = await freePort();
+	let out = '';
+	const proc = spawn(process.execPath, ['scripts/start.js'], {
+		env: {
+			...process.env,
+			PORT: String(port),
+			ORIGIN: `http://localhost:${port}`,
+			CLEARPITCH_DATA_DIR: dataDir,
+			DATABASE_URL: '',
+			...extraEnv
+		},
+		stdio: ['ignore', 'pipe', 'pipe']
+	});
+	proc.stdout!.on('data', (d) => (out += d));
+	proc.stderr!.on('data', (d) => (out += d));
+	const url = `http://localhost:${port}`;
+	const deadline = Date.now() + 60_000;
+	while (Date.now() < deadline) {
+		if (proc.exitCode !== null) throw new Error(`Server exited early:\n${out}`);
+		try {
+			const r = await fetch(`${url}/api/health`);
+			if (r.ok) break;
+		} catch {
+			/* not listening yet */
+		}
+		await new Promise((r) => setTimeout(r, 200));
+	}
+	return {
+		url,
+		port,
+		dataDir,
+		proc,
+		log: () => out,
+		stop: () =>
+			new Promise<void>((resolve) => {
+				if (proc.exitCode !== null) return resolve();
+				proc.once('exit', () => resolve());
+				proc.kill('SIGTERM');
+				setTimeout(() => proc.kill('SIGKILL'), 10_000).unref();
+			})
+	};
+}
+
+export const DEMO_PASSWORD = 'pitch-demo-2026';
+export const DEMO = {
+	owner: 'owner@harborpine.example',
+	estimator: 'estimator@harborpine.example',
+	sales: 'sales@harborpine.example',
+	crew: 'crew@harborpine.example'
+} as const;
