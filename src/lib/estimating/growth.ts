@@ -34,13 +34,23 @@ export function applyTestSpot(
 	spot: TestSpot | undefined,
 	rules: RateCard['testSpot']
 ): StrengthDecision {
-	const none: StrengthDecision = { suggestedPct, strengthPct: suggestedPct, effect: 'none', capped: false };
+	const none: StrengthDecision = {
+		suggestedPct,
+		strengthPct: suggestedPct,
+		effect: 'none',
+		capped: false
+	};
 	if (!spot) return none;
 	const slow = spot.secondsToColourChange > rules.slowSeconds || !spot.rinsedClean;
 	if (slow) {
 		const wanted = suggestedPct + rules.adjustStepPct;
 		const strengthPct = clampStrength(wanted, m);
-		return { suggestedPct, strengthPct, effect: 'raised', capped: strengthPct < wanted - STRENGTH_EPS };
+		return {
+			suggestedPct,
+			strengthPct,
+			effect: 'raised',
+			capped: strengthPct < wanted - STRENGTH_EPS
+		};
 	}
 	const quick =
 		spot.secondsToColourChange <= rules.quickSeconds &&

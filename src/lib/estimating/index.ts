@@ -36,8 +36,7 @@ export { NOT_WALKABLE, accessRefusal } from './access';
 const STRONGEST_USUAL_STOCK_PCT = 15;
 
 export type EstimateOutcome =
-	| { ok: true; value: EstimateResult }
-	| { ok: false; issues: EstimateIssue[] };
+	{ ok: true; value: EstimateResult } | { ok: false; issues: EstimateIssue[] };
 
 /**
  * Prices a roof plan with a rate card. Pure and deterministic.
@@ -75,7 +74,11 @@ export function tryEstimate(input: EstimateInput, card: RateCard): EstimateOutco
 	const spot = input.testSpot;
 	if (spot !== undefined) {
 		if (!isFiniteIn(spot.strengthPct, 0, 100) || spot.strengthPct <= 0) {
-			issue(['testSpot', 'strengthPct'], 'invalid', 'testSpot.strengthPct must be a percentage above 0');
+			issue(
+				['testSpot', 'strengthPct'],
+				'invalid',
+				'testSpot.strengthPct must be a percentage above 0'
+			);
 		}
 		if (!isFiniteIn(spot.secondsToColourChange, 0, Infinity)) {
 			issue(
@@ -86,15 +89,27 @@ export function tryEstimate(input: EstimateInput, card: RateCard): EstimateOutco
 		}
 		spot.facetIds?.forEach((id, k) => {
 			if (!seenIds.has(id)) {
-				issue(['testSpot', 'facetIds', k], 'unknown_facet', `testSpot.facetIds names unknown facet "${id}"`);
+				issue(
+					['testSpot', 'facetIds', k],
+					'unknown_facet',
+					`testSpot.facetIds names unknown facet "${id}"`
+				);
 			}
 		});
 	}
 	const stockFromInput = input.stockStrengthPct !== undefined;
-	const stockStrengthPct = stockFromInput ? input.stockStrengthPct! : card.chemistry.stockStrengthPct;
-	const stockPath = stockFromInput ? ['stockStrengthPct'] : ['rateCard', 'chemistry', 'stockStrengthPct'];
+	const stockStrengthPct = stockFromInput
+		? input.stockStrengthPct!
+		: card.chemistry.stockStrengthPct;
+	const stockPath = stockFromInput
+		? ['stockStrengthPct']
+		: ['rateCard', 'chemistry', 'stockStrengthPct'];
 	if (!isFiniteIn(stockStrengthPct, 0, 100) || stockStrengthPct <= 0) {
-		issue(stockPath, 'invalid', 'stockStrengthPct must be the tested stock strength, above 0 and at most 100');
+		issue(
+			stockPath,
+			'invalid',
+			'stockStrengthPct must be the tested stock strength, above 0 and at most 100'
+		);
 	}
 	const discountRequested = input.discountPct ?? 0;
 	if (!isFiniteIn(discountRequested, 0, 100)) {
@@ -103,7 +118,11 @@ export function tryEstimate(input: EstimateInput, card: RateCard): EstimateOutco
 	const extras = input.extras ?? [];
 	extras.forEach((e, k) => {
 		if (!Number.isSafeInteger(e?.priceCents) || e.priceCents < 0) {
-			issue(['extras', k, 'priceCents'], 'invalid', 'extras priceCents must be whole cents, 0 or more');
+			issue(
+				['extras', k, 'priceCents'],
+				'invalid',
+				'extras priceCents must be whole cents, 0 or more'
+			);
 		}
 	});
 	if (issues.length > 0) return { ok: false, issues };
@@ -150,15 +169,14 @@ export function tryEstimate(input: EstimateInput, card: RateCard): EstimateOutco
 		const mixGal = facetMixGal(squares, mat.coverageGalPerSquare, gr.applications);
 		const eave = eaveLength(plan.segmentLengthsFt, f.edges);
 		const ladders = ladderPlacements(f.access, eave.eaveLengthFt, card.ladder.eaveFtPerPlacement);
-		const hours =
-			applicationHours({
-				squares,
-				applications: gr.applications,
-				productionSquaresPerHour: mat.productionSquaresPerHour,
-				accessLabourMultiplier: ac.labourMultiplier,
-				storyLabourMultiplier: st.labourMultiplier,
-				growthLabourFactor: gr.labourFactor
-			});
+		const hours = applicationHours({
+			squares,
+			applications: gr.applications,
+			productionSquaresPerHour: mat.productionSquaresPerHour,
+			accessLabourMultiplier: ac.labourMultiplier,
+			storyLabourMultiplier: st.labourMultiplier,
+			growthLabourFactor: gr.labourFactor
+		});
 		const steepMult = steep ? card.steepPitch.priceMultiplier : 1;
 		const priceCents = facetPriceCents({
 			squares,
@@ -387,7 +405,8 @@ function collectFacetNotes(
 			`facets.${i}.edges`
 		);
 	}
-	if (f.growth === 'G3' || f.growth === 'G4') expectations.add('growth.lichen', EXPECTATIONS.lichen, f.id);
+	if (f.growth === 'G3' || f.growth === 'G4')
+		expectations.add('growth.lichen', EXPECTATIONS.lichen, f.id);
 	if (f.growth === 'G4') expectations.add('growth.severe', EXPECTATIONS.severe, f.id);
 	if (f.material === 'clay_tile' || f.material === 'concrete_tile') {
 		expectations.add('material.tile_batch', EXPECTATIONS.tileBatch, f.id);
@@ -459,4 +478,3 @@ function collectJobNotes(
 		);
 	}
 }
-

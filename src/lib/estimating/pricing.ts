@@ -41,11 +41,7 @@ export interface JobPriceInput {
  * The discount may not take the price under the minimum job charge, so the two never appear
  * together. Every line is rounded once and the total is their sum, so the lines add up to it.
  */
-export function jobPrice(
-	job: JobPriceInput,
-	card: RateCard,
-	warnings: WarningSink
-): PriceResult {
+export function jobPrice(job: JobPriceInput, card: RateCard, warnings: WarningSink): PriceResult {
 	const lineItems: LineItem[] = job.facetLines.slice();
 	for (let i = 0; i < job.extras.length; i++) {
 		const e = job.extras[i];
@@ -139,7 +135,10 @@ export function jobPrice(
 
 	const range = job.measuredOnSite ? card.range.confirmed : card.range.remote;
 	// Measurement doubt cannot take the price under the minimum job charge.
-	const floor = Math.min(totalCents, card.minimumJobCents + pctOf(card.minimumJobCents, card.taxPct));
+	const floor = Math.min(
+		totalCents,
+		card.minimumJobCents + pctOf(card.minimumJobCents, card.taxPct)
+	);
 	const lowCents = Math.max(floor, totalCents - pctOf(totalCents, range.lowPct));
 	const highCents = totalCents + pctOf(totalCents, range.highPct);
 	const depositCents = Math.min(totalCents, pctOf(totalCents, card.depositPct));

@@ -63,12 +63,19 @@ export const polygonSchema = z.strictObject(
 		coordinates: z
 			.array(ring, { error: 'polygon coordinates must be an array of rings' })
 			.length(1, {
-				error: 'polygon must have exactly one ring (holes are not supported: outline the whole facet)'
+				error:
+					'polygon must have exactly one ring (holes are not supported: outline the whole facet)'
 			}),
 		bbox: z
-			.union([z.tuple([z.number(), z.number(), z.number(), z.number()]), z.tuple([z.number(), z.number(), z.number(), z.number(), z.number(), z.number()])], {
-				error: 'polygon bbox must have 4 or 6 numbers'
-			})
+			.union(
+				[
+					z.tuple([z.number(), z.number(), z.number(), z.number()]),
+					z.tuple([z.number(), z.number(), z.number(), z.number(), z.number(), z.number()])
+				],
+				{
+					error: 'polygon bbox must have 4 or 6 numbers'
+				}
+			)
 			.optional()
 	},
 	{ error: 'polygon must be a GeoJSON Polygon object' }

@@ -17,7 +17,9 @@ const num = (field: string, min: number, max: number, unit = '') =>
 		.max(max, { error: `${field} must be at most ${max}${unit}` });
 
 const int = (field: string, min: number, max: number, unit = '') =>
-	num(field, min, max, unit).int({ error: `${field} must be a whole number${unit ? ` of${unit}` : ''}` });
+	num(field, min, max, unit).int({
+		error: `${field} must be a whole number${unit ? ` of${unit}` : ''}`
+	});
 
 const pct = (field: string, max = 100) => num(field, 0, max, '%');
 const strength = (field: string) => num(field, 0, 20, '%');
