@@ -3,10 +3,10 @@ import { RateLimiter } from 'sveltekit-rate-limiter/server';
 
 /**
  * Checked before any password hashing, so the hash can't be used to burn CPU.
- * Five tries a minute per client and address, and a looser cap per client.
+ * Five tries a minute per client and address, and sixty a minute per client address.
  */
 const limiter = new RateLimiter<string>({
-	IP: [30, 'm'],
+	IP: [60, 'm'],
 	plugins: [
 		{
 			rate: [5, 'm'],

@@ -1,0 +1,30 @@
+#!/usr/bin/env bash
+# `npm test`: formatting, type checks, the build, then unit, integration and browser tests.
+set -euo pipefail
+cd "$(dirname "$0")/.."
+
+chromium_bin="${CHROMIUM_PATH:-/usr/bin/chromium}"
+if [ ! -x "$chromium_bin" ]; then
+	if [ "$(id -u)" = 0 ] && command -v apt-get >/dev/null; then
+		echo "Chromium is missing: installing Debian's chromium package for the browser tests…"
+		apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq chromium >/dev/null
+	else
+		echo "The browser tests need Chromium. Install the Debian package: sudo apt-get install chromium" >&2
+		exit 1
+	fi
+fi
+
+echo "== format and types"
+npx prettier --check . --log-level warn
+npx svelte-kit sync
+npx svelte-check --tsconfig ./tsconfig.json --fail-on-warnings --output human
+
+echo "== sample imagery"
+node geodata/generate-tiles.js
+
+echo "== build"
+npx vite build --logLevel warn
+node scripts/check-bundle.js
+
+echo "== tests"
+npx vitest run
