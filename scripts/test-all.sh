@@ -26,5 +26,11 @@ echo "== build"
 npx vite build --logLevel warn
 node scripts/check-bundle.js
 
-echo "== tests"
-npx vitest run
+# Projects run one after another: integration and browser tests each start servers,
+# and this machine has two cores.
+echo "== unit tests"
+npx vitest run --project unit
+echo "== integration tests"
+npx vitest run --project integration
+echo "== browser tests"
+npx vitest run --project e2e
