@@ -34,7 +34,10 @@ describe('sign-in', () => {
 			body: new URLSearchParams({ email: DEMO.sales, password: 'pitch-demo-2026' })
 		});
 		const set = res.headers.getSetCookie().join('\n');
-		// RELIABILITY.md §2 / lucia cookie guidance: HttpOnly, SameSite=Lax, Secure, Path=/.
+		// The database keeps only a hash of the cookie's token.
+		const token = set.match(/cp_session=([^;]+)/)![1];
+		expect(token.length).toBeGreaterThanOrEqual(26);
+		// lucia cookie guidance (RELIABILITY.md §2): HttpOnly, SameSite=Lax, Secure, Path=/.
 		expect(set).toMatch(/HttpOnly/);
 		expect(set).toMatch(/SameSite=Lax/);
 		expect(set).toMatch(/Secure/);

@@ -3,7 +3,7 @@ import { and, eq, isNull } from 'drizzle-orm';
 import { getDb } from '../db';
 import { apiTokens, users } from '../db/schema';
 import { getLucia } from './lucia';
-import { hashApiToken } from './tokens';
+import { hashApiToken, hashSessionToken, newSessionToken } from './tokens';
 
 export type LocalUser = {
 	id: string;
@@ -16,8 +16,15 @@ export type LocalUser = {
 
 export async function startSession(cookies: Cookies, userId: string, companyId: string) {
 	const lucia = await getLucia();
-	const session = await lucia.createSession(userId, { companyId });
-	const cookie = lucia.createSessionCookie(session.id);
+	// The cookie carries the token; the database keeps only its hash as the session id,
+	// so a leaked table holds no live sessions.
+	const token = newSessionToken();
+	const session = await lucia.createSession(
+		userId,
+		{ companyId },
+		{ sessionId: hashSessionToken(token) }
+	);
+	const cookie = lucia.createSessionCookie(token);
 	cookies.set(cookie.name, cookie.value, { path: '/', ...cookie.attributes });
 	return session;
 }
@@ -38,9 +45,9 @@ export async function resolveCaller(
 		return { user: await userFromToken(bearer.slice(7).trim()), sessionId: null };
 	}
 	const lucia = await getLucia();
-	const sessionId = event.cookies.get(lucia.sessionCookieName);
-	if (!sessionId) return { user: null, sessionId: null };
-	const { session, user } = await lucia.validateSession(sessionId);
+	const token = event.cookies.get(lucia.sessionCookieName);
+	if (!token) return { user: null, sessionId: null };
+	const { session, user } = await lucia.validateSession(hashSessionToken(token));
 	if (!session || !user || !user.active) {
 		if (session) await lucia.invalidateSession(session.id);
 		const blank = lucia.createBlankSessionCookie();
@@ -48,7 +55,7 @@ export async function resolveCaller(
 		return { user: null, sessionId: null };
 	}
 	if (session.fresh) {
-		const cookie = lucia.createSessionCookie(session.id);
+		const cookie = lucia.createSessionCookie(token);
 		event.cookies.set(cookie.name, cookie.value, { path: '/', ...cookie.attributes });
 	}
 	return {

@@ -8,3 +8,12 @@ export function newApiToken(): string {
 export function hashApiToken(token: string): string {
 	return createHash('sha256').update(token).digest('hex');
 }
+
+/** Session tokens: 160 random bits in the cookie, SHA-256 of it as the stored session id. */
+export function newSessionToken(): string {
+	return randomBytes(20).toString('base64url');
+}
+
+export function hashSessionToken(token: string): string {
+	return createHash('sha256').update(token).digest('hex');
+}
