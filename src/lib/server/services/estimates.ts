@@ -1,0 +1,287 @@
+import { and, count, desc, eq, ilike, or, sql, type SQL } from 'drizzle-orm';
+import type { Role } from '../../roles';
+import { tryEstimate } from '../../estimating';
+import type { EstimateInput, EstimateResult } from '../../estimating/types';
+import { toEstimateInput, type EstimateRequest } from '../../schemas/estimate';
+import { ApiError, invalid, issuesOf } from '../api/errors';
+import { getDb } from '../db';
+import { customers, estimateStatusEnum, estimates, sites, users } from '../db/schema';
+import { latestRateCard, NoRateCardError, rateCardById, type StoredRateCard } from './rate-cards';
+
+export const ESTIMATE_STATUSES = estimateStatusEnum.enumValues;
+export type EstimateStatus = (typeof ESTIMATE_STATUSES)[number];
+
+/**
+ * The moves an estimate can make and who may make them. The owner may make any of them; the
+ * estimator readies a draft; sales sends, and records the customer's answer.
+ */
+const TRANSITIONS: Record<EstimateStatus, Partial<Record<EstimateStatus, readonly Role[]>>> = {
+	draft: { ready: ['owner', 'estimator'] },
+	ready: { sent: ['owner', 'sales'], draft: ['owner', 'estimator'], expired: ['owner', 'sales'] },
+	sent: {
+		accepted: ['owner', 'sales'],
+		declined: ['owner', 'sales'],
+		expired: ['owner', 'sales']
+	},
+	accepted: { scheduled: ['owner', 'sales'] },
+	scheduled: { done: ['owner'] },
+	done: { paid: ['owner'] },
+	paid: {},
+	declined: {},
+	expired: {}
+};
+
+/** Statuses reachable from `from`, whoever asks. */
+export function legalNext(from: EstimateStatus): EstimateStatus[] {
+	return Object.keys(TRANSITIONS[from]) as EstimateStatus[];
+}
+
+/** Statuses this role may move an estimate to from `from`. */
+export function nextStatusesFor(from: EstimateStatus, role: Role): EstimateStatus[] {
+	return legalNext(from).filter((to) => TRANSITIONS[from][to]!.includes(role));
+}
+
+export type Caller = { id: string; companyId: string; role: Role };
+
+export type PricedEstimate = EstimateResult & {
+	rateCard: { id: string; version: number };
+	estimate?: { id: string; status: EstimateStatus };
+};
+
+async function cardFor(companyId: string, rateCardId?: string): Promise<StoredRateCard> {
+	if (!rateCardId) {
+		try {
+			return await latestRateCard(companyId);
+		} catch (e) {
+			if (e instanceof NoRateCardError) throw new ApiError(409, e.message);
+			throw e;
+		}
+	}
+	const card = await rateCardById(companyId, rateCardId);
+	if (!card) {
+		throw invalid([{ path: 'rateCardId', message: 'rateCardId is not one of your rate cards' }]);
+	}
+	return card;
+}
+
+async function assertSite(companyId: string, siteId: string | undefined) {
+	if (!siteId) {
+		throw invalid([{ path: 'siteId', message: 'siteId is required when save is true' }]);
+	}
+	const db = await getDb();
+	const [site] = await db
+		.select({ id: sites.id })
+		.from(sites)
+		.where(and(eq(sites.id, siteId), eq(sites.companyId, companyId)))
+		.limit(1);
+	if (!site) throw invalid([{ path: 'siteId', message: 'siteId is not one of your sites' }]);
+}
+
+/**
+ * Prices a validated request with the company's latest card (or the one it names). With
+ * `save`, stores it as a draft for the site, frozen: its input, result and card version never
+ * change afterwards. Refusals throw ApiError and write nothing.
+ */
+export async function priceEstimate(
+	caller: Caller,
+	body: EstimateRequest
+): Promise<PricedEstimate> {
+	if (body.save) await assertSite(caller.companyId, body.siteId);
+	const card = await cardFor(caller.companyId, body.rateCardId);
+	const input = toEstimateInput(body);
+	const outcome = tryEstimate(input, card.card);
+	if (!outcome.ok) throw invalid(issuesOf(outcome.issues), 'roof plan');
+	const priced: PricedEstimate = {
+		...outcome.value,
+		rateCard: { id: card.id, version: card.version }
+	};
+	if (!body.save) return priced;
+	const db = await getDb();
+	const [row] = await db
+		.insert(estimates)
+		.values({
+			companyId: caller.companyId,
+			siteId: body.siteId!,
+			roofPlanId: body.roofPlanId ?? null,
+			status: 'draft',
+			rateCardId: card.id,
+			rateCardVersion: card.version,
+			input,
+			result: outcome.value,
+			totalCents: outcome.value.price.totalCents,
+			createdBy: caller.id
+		})
+		.returning({ id: estimates.id, status: estimates.status });
+	return { ...priced, estimate: row };
+}
+
+export type EstimateFilters = {
+	status?: EstimateStatus;
+	siteId?: string;
+	text?: string;
+	page: number;
+	pageSize: number;
+};
+
+export type EstimateListItem = {
+	id: string;
+	status: EstimateStatus;
+	siteId: string | null;
+	address: string | null;
+	customerName: string | null;
+	totalCents: number;
+	squares: number;
+	rateCardVersion: number;
+	createdAt: Date;
+	updatedAt: Date;
+};
+
+const escapeLike = (s: string) => s.replace(/[\\%_]/g, (c) => '\\' + c);
+
+export async function listEstimates(
+	companyId: string,
+	f: EstimateFilters
+): Promise<{ items: EstimateListItem[]; total: number; page: number; pageSize: number }> {
+	const db = await getDb();
+	const where: SQL[] = [eq(estimates.companyId, companyId)];
+	if (f.status) where.push(eq(estimates.status, f.status));
+	if (f.siteId) where.push(eq(estimates.siteId, f.siteId));
+	const text = f.text?.trim();
+	if (text) {
+		const like = `%${escapeLike(text)}%`;
+		where.push(or(ilike(sites.address, like), ilike(customers.name, like))!);
+	}
+	const filter = and(...where);
+	const [[{ n }], items] = await Promise.all([
+		db
+			.select({ n: count() })
+			.from(estimates)
+			.leftJoin(sites, eq(sites.id, estimates.siteId))
+			.leftJoin(customers, eq(customers.id, sites.customerId))
+			.where(filter),
+		db
+			.select({
+				id: estimates.id,
+				status: estimates.status,
+				siteId: estimates.siteId,
+				address: sites.address,
+				customerName: customers.name,
+				totalCents: estimates.totalCents,
+				squares: sql<number>`(${estimates.result}->'totals'->>'squares')::float8`,
+				rateCardVersion: estimates.rateCardVersion,
+				createdAt: estimates.createdAt,
+				updatedAt: estimates.updatedAt
+			})
+			.from(estimates)
+			.leftJoin(sites, eq(sites.id, estimates.siteId))
+			.leftJoin(customers, eq(customers.id, sites.customerId))
+			.where(filter)
+			.orderBy(desc(estimates.createdAt), desc(estimates.id))
+			.limit(f.pageSize)
+			.offset((f.page - 1) * f.pageSize)
+	]);
+	return { items, total: n, page: f.page, pageSize: f.pageSize };
+}
+
+export type EstimateDetail = {
+	id: string;
+	status: EstimateStatus;
+	siteId: string | null;
+	roofPlanId: string | null;
+	site: { address: string; customerName: string } | null;
+	rateCard: { id: string; version: number };
+	input: EstimateInput;
+	result: EstimateResult;
+	totalCents: number;
+	createdBy: string | null;
+	createdAt: Date;
+	updatedAt: Date;
+};
+
+export async function getEstimate(
+	companyId: string,
+	id: string
+): Promise<EstimateDetail | undefined> {
+	const db = await getDb();
+	const [row] = await db
+		.select({
+			e: estimates,
+			address: sites.address,
+			customerName: customers.name,
+			createdBy: users.name
+		})
+		.from(estimates)
+		.leftJoin(sites, eq(sites.id, estimates.siteId))
+		.leftJoin(customers, eq(customers.id, sites.customerId))
+		.leftJoin(users, eq(users.id, estimates.createdBy))
+		.where(and(eq(estimates.id, id), eq(estimates.companyId, companyId)))
+		.limit(1);
+	if (!row) return undefined;
+	const { e } = row;
+	return {
+		id: e.id,
+		status: e.status,
+		siteId: e.siteId,
+		roofPlanId: e.roofPlanId,
+		site:
+			row.address !== null ? { address: row.address, customerName: row.customerName ?? '' } : null,
+		rateCard: { id: e.rateCardId, version: e.rateCardVersion },
+		input: e.input as EstimateInput,
+		result: e.result as EstimateResult,
+		totalCents: e.totalCents,
+		createdBy: row.createdBy,
+		createdAt: e.createdAt,
+		updatedAt: e.updatedAt
+	};
+}
+
+/**
+ * Moves an estimate to `to`. 404 when it is not the company's, 409 when the move is not on the
+ * path from its current status, 403 when the caller's role may not make it. The update is
+ * conditional on the status it read, so two people acting at once can't both win.
+ */
+export async function changeStatus(
+	caller: Caller,
+	id: string,
+	to: EstimateStatus
+): Promise<EstimateDetail> {
+	const current = await getEstimate(caller.companyId, id);
+	if (!current) throw new ApiError(404, `No estimate with id ${id}.`);
+	const from = current.status;
+	if (from === to) return current;
+	const roles = TRANSITIONS[from][to];
+	if (!roles) {
+		const options = legalNext(from);
+		throw new ApiError(
+			409,
+			`An estimate that is ${from} can't become ${to}` +
+				(options.length ? `; from ${from} it can become ${options.join(', ')}.` : '.'),
+			[{ path: 'status', message: `${from} → ${to} is not allowed` }]
+		);
+	}
+	if (!roles.includes(caller.role)) {
+		throw new ApiError(
+			403,
+			`Moving an estimate from ${from} to ${to} needs the ${roles.join(' or ')} role; you are ${caller.role}.`
+		);
+	}
+	const db = await getDb();
+	const moved = await db
+		.update(estimates)
+		.set({ status: to })
+		.where(
+			and(
+				eq(estimates.id, id),
+				eq(estimates.companyId, caller.companyId),
+				eq(estimates.status, from)
+			)
+		)
+		.returning({ id: estimates.id });
+	if (moved.length === 0) {
+		throw new ApiError(
+			409,
+			'Someone changed this estimate at the same time; reload and try again.'
+		);
+	}
+	return (await getEstimate(caller.companyId, id))!;
+}
