@@ -17,14 +17,16 @@ export function facetMixGal(
 	return squares * coverageGalPerSquare * applications;
 }
 
+/** What a batch needs from a facet (a FacetResult is one). */
 export interface MixNeed {
-	facetId: string;
-	strengthPct: number;
+	id: string;
+	mixStrengthPct: number;
 	mixGal: number;
 }
 
 export interface BatchProblem {
 	strengthPct: number;
+	facetIds: string[];
 	message: string;
 }
 
@@ -40,14 +42,14 @@ export function buildBatches(
 ): { batches: Batch[]; problems: BatchProblem[] } {
 	const byKey = new Map<number, { strengthPct: number; gal: number; facetIds: string[] }>();
 	for (const need of needs) {
-		const key = strengthKey(need.strengthPct);
+		const key = strengthKey(need.mixStrengthPct);
 		let b = byKey.get(key);
 		if (!b) {
 			b = { strengthPct: key, gal: 0, facetIds: [] };
 			byKey.set(key, b);
 		}
 		b.gal += need.mixGal;
-		b.facetIds.push(need.facetId);
+		b.facetIds.push(need.id);
 	}
 	const groups = [...byKey.values()].sort((a, b) => a.strengthPct - b.strengthPct);
 	const batches: Batch[] = [];
@@ -58,6 +60,7 @@ export function buildBatches(
 		if (g.strengthPct >= stockStrengthPct) {
 			problems.push({
 				strengthPct: g.strengthPct,
+				facetIds: g.facetIds,
 				message: `a ${g.strengthPct}% mix cannot be made from ${stockStrengthPct}% stock: the stock must be stronger than the mix`
 			});
 			continue;
@@ -68,6 +71,7 @@ export function buildBatches(
 		if (waterGal < 0) {
 			problems.push({
 				strengthPct: g.strengthPct,
+				facetIds: g.facetIds,
 				message: `a ${g.strengthPct}% mix from ${stockStrengthPct}% stock leaves no room for the surfactant dose; use stronger stock`
 			});
 			continue;

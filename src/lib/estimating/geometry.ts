@@ -1,13 +1,14 @@
 import { area, earthRadius, kinks } from '@turf/turf';
 import type { Polygon, Position } from 'geojson';
 import type { EdgeKind } from './types';
-import { m2ToFt2, mToFt } from './units';
+import { M_PER_FT, m2ToFt2, mToFt } from './units';
 
 /** WGS84 ellipsoid (NIMA TR8350.2). */
 export const WGS84_A = 6378137;
 export const WGS84_F = 1 / 298.257223563;
 const E2 = WGS84_F * (2 - WGS84_F);
 const DEG = Math.PI / 180;
+const HALF_DEG = DEG / 2;
 
 /** A facet outline smaller than this is a slip of the mouse, not a roof plane. */
 export const MIN_FACET_AREA_FT2 = 1;
@@ -88,6 +89,10 @@ export function measureFacetPlan(polygon: Polygon): PlanResult {
 		);
 	}
 	const n = ring.length;
+	let minLon = Infinity;
+	let maxLon = -Infinity;
+	let latSum = 0;
+	let repeats = false;
 	for (let i = 0; i < n; i++) {
 		const p = ring[i];
 		if (!Array.isArray(p) || p.length < 2 || !isFiniteNumber(p[0]) || !isFiniteNumber(p[1])) {
@@ -97,13 +102,19 @@ export function measureFacetPlan(polygon: Polygon): PlanResult {
 				`position ${i} must be [lon, lat] with finite numbers`
 			);
 		}
-		if (p[0] < -180 || p[0] > 180 || p[1] < -90 || p[1] > 90) {
+		const x = p[0];
+		const y = p[1];
+		if (x < -180 || x > 180 || y < -90 || y > 90) {
 			return fail(
 				['polygon', 'coordinates', 0, i],
 				'out_of_range',
 				`position ${i} is out of range (lon −180..180, lat −90..90; GeoJSON order is [lon, lat])`
 			);
 		}
+		if (x < minLon) minLon = x;
+		if (x > maxLon) maxLon = x;
+		if (i < n - 1) latSum += y;
+		if (i > 0 && x === ring[i - 1][0] && y === ring[i - 1][1]) repeats = true;
 	}
 	if (ring[0][0] !== ring[n - 1][0] || ring[0][1] !== ring[n - 1][1]) {
 		return fail(
@@ -112,46 +123,63 @@ export function measureFacetPlan(polygon: Polygon): PlanResult {
 			'polygon ring is not closed: the last position must repeat the first'
 		);
 	}
+	// Any interior latitude serves for the radii: they change by parts per billion across a roof.
+	const centroidLatDeg = latSum / (n - 1);
 
-	// Longitudes are unwrapped against the first corner so a facet astride ±180° stays whole.
-	const lon0 = ring[0][0];
-	const lons = new Array<number>(n);
-	const lats = new Array<number>(n);
-	for (let i = 0; i < n; i++) {
-		let d = ring[i][0] - lon0;
-		if (d > 180) d -= 360;
-		else if (d < -180) d += 360;
-		lons[i] = lon0 + d;
-		lats[i] = ring[i][1];
+	// Only a facet astride ±180° (longitudes unwrapped against the first corner) or one with
+	// repeated consecutive positions (harmless for area, but turf's kinks reports the shared
+	// point as a crossing) needs a working copy of its ring.
+	const wraps = maxLon - minLon > 180;
+	let work: Position[] = ring;
+	if (wraps || repeats) {
+		const lon0 = ring[0][0];
+		work = [];
+		for (let i = 0; i < n; i++) {
+			let x = ring[i][0];
+			if (wraps) {
+				const d = x - lon0;
+				x = d > 180 ? x - 360 : d < -180 ? x + 360 : x;
+			}
+			const y = ring[i][1];
+			const prev = work[work.length - 1];
+			if (!prev || x !== prev[0] || y !== prev[1]) work.push([x, y]);
+		}
 	}
 
-	// Distinct corners, and the ring without repeated consecutive positions (zero-length segments
-	// are harmless for area, but turf's kinks would report the shared point as a crossing).
-	const clean: Position[] = [[lons[0], lats[0]]];
-	for (let i = 1; i < n; i++) {
-		const prev = clean[clean.length - 1];
-		if (lons[i] !== prev[0] || lats[i] !== prev[1]) clean.push([lons[i], lats[i]]);
-	}
-	const distinct = clean.length - 1;
-	let latSum = 0;
-	for (let i = 0; i < distinct; i++) latSum += clean[i][1];
-	if (distinct < 3 || !distinctAtLeast3(clean)) {
+	// Most facets are convex (rectangles, trapezoids, triangles). A strictly convex ring has three
+	// distinct corners, cannot double back and cannot cross itself, so those checks (turf's kinks
+	// is O(n²)) run only on the others.
+	const convex = isStrictlyConvex(work);
+	if (!convex && !distinctAtLeast3(ring)) {
 		return fail(
 			['polygon', 'coordinates', 0],
 			'too_few_vertices',
 			'polygon needs at least 3 distinct corners'
 		);
 	}
-	const centroidLatDeg = latSum / distinct;
 
-	// Plan lengths in a local plane from the ellipsoid's radii at each segment's mid-latitude:
-	// x = N·cosφ·Δλ, y = M·Δφ (good to well under 1 ppm over a roof; DOMAIN.md §4).
+	// Plan lengths in a local plane from the ellipsoid's radii: x = N·cosφ·Δλ, y = M·Δφ
+	// (agrees with GeographicLib to well under 1 ppm over a roof; DOMAIN.md §4). M and N barely
+	// change across a roof, but cosφ does (by ~5 ppm over 12 m at 70°), so it is taken per edge.
+	const phiC = centroidLatDeg * DEG;
+	const sinC = Math.sin(phiC);
+	const cosC = Math.cos(phiC);
+	const w = 1 - E2 * sinC * sinC;
+	const sqrtW = Math.sqrt(w);
+	const nC = WGS84_A / sqrtW;
+	const mC = (WGS84_A * (1 - E2)) / (w * sqrtW);
+	const kx = nC * DEG;
+	const ky = mC * DEG;
 	const segmentLengthsFt = new Array<number>(n - 1);
 	let perimeterM = 0;
 	for (let i = 0; i < n - 1; i++) {
-		const midLat = (lats[i] + lats[i + 1]) / 2;
-		const dx = primeVerticalRadius(midLat) * Math.cos(midLat * DEG) * (lons[i + 1] - lons[i]) * DEG;
-		const dy = meridionalRadius(midLat) * (lats[i + 1] - lats[i]) * DEG;
+		let dl = ring[i + 1][0] - ring[i][0];
+		if (wraps) dl = dl > 180 ? dl - 360 : dl < -180 ? dl + 360 : dl;
+		// cos of the edge's mid-latitude by Taylor series about the centroid (|δ| < 1e-4 rad,
+		// so the cubic term is below 1e-12)
+		const d = (ring[i][1] + ring[i + 1][1]) * HALF_DEG - phiC;
+		const dx = kx * (cosC * (1 - 0.5 * d * d) - sinC * d) * dl;
+		const dy = ky * (ring[i + 1][1] - ring[i][1]);
 		const len = Math.sqrt(dx * dx + dy * dy);
 		if (len > MAX_EDGE_M) {
 			return fail(
@@ -160,20 +188,21 @@ export function measureFacetPlan(polygon: Polygon): PlanResult {
 				`edge ${i} is ${Math.round(len)} m long, too long for a roof facet (check the [lon, lat] order)`
 			);
 		}
-		segmentLengthsFt[i] = mToFt(len);
+		segmentLengthsFt[i] = len / M_PER_FT;
 		perimeterM += len;
 	}
 
-	const back = findDoubleBack(clean, centroidLatDeg);
+	const back = convex ? -1 : findDoubleBack(work, centroidLatDeg);
 	if (back >= 0) {
 		return fail(
 			['polygon', 'coordinates', 0],
 			'self_overlap',
-			`polygon outline doubles back on itself at corner [${fmtPos(clean[back])}]`
+			`polygon outline doubles back on itself at corner [${fmtPos(work[back])}]`
 		);
 	}
-	const crossings = kinks({ type: 'Polygon', coordinates: [clean] });
-	if (crossings.features.length > 0) {
+	const geometry: Polygon = work === ring ? polygon : { type: 'Polygon', coordinates: [work] };
+	const crossings = convex ? null : kinks(geometry);
+	if (crossings && crossings.features.length > 0) {
 		const at = crossings.features[0].geometry.coordinates;
 		return fail(
 			['polygon'],
@@ -182,8 +211,8 @@ export function measureFacetPlan(polygon: Polygon): PlanResult {
 		);
 	}
 
-	const planAreaM2 =
-		area({ type: 'Polygon', coordinates: [clean] }) * ellipsoidAreaCorrection(centroidLatDeg);
+	// Same correction as ellipsoidAreaCorrection(), from the radii already at hand.
+	const planAreaM2 = (area(geometry) * mC * nC) / (earthRadius * earthRadius);
 	const planAreaFt2 = m2ToFt2(planAreaM2);
 	if (!(planAreaFt2 >= MIN_FACET_AREA_FT2)) {
 		return fail(
@@ -204,17 +233,50 @@ export function measureFacetPlan(polygon: Polygon): PlanResult {
 	};
 }
 
-/** Consecutive-distinct is not enough: A,B,A,B… has only 2 distinct corners. */
-function distinctAtLeast3(clean: Position[]): boolean {
-	const a = clean[0];
+/** Needs three different corners; A,B,A,B… or A,B,B,A has only two. */
+function distinctAtLeast3(ring: Position[]): boolean {
+	const a = ring[0];
 	let b: Position | undefined;
-	for (let i = 1; i < clean.length - 1; i++) {
-		const p = clean[i];
+	for (let i = 1; i < ring.length - 1; i++) {
+		const p = ring[i];
 		if (p[0] === a[0] && p[1] === a[1]) continue;
 		if (!b) b = p;
 		else if (p[0] !== b[0] || p[1] !== b[1]) return true;
 	}
 	return false;
+}
+
+/**
+ * True when a closed ring without repeated consecutive positions turns the same way at every
+ * corner and winds round only once (x changes direction exactly twice; a pentagram turns one
+ * way everywhere but winds twice). Such a ring is simple. Collinear corners make it false,
+ * which only means the full check runs.
+ */
+export function isStrictlyConvex(ring: Position[]): boolean {
+	const m = ring.length - 1;
+	if (m < 3) return false;
+	let sign = 0;
+	let flips = 0;
+	let prevDx = ring[0][0] - ring[m - 1][0];
+	let prevDy = ring[0][1] - ring[m - 1][1];
+	let lastXDir = Math.sign(prevDx);
+	for (let j = 0; j < m; j++) {
+		const dx = ring[j + 1][0] - ring[j][0];
+		const dy = ring[j + 1][1] - ring[j][1];
+		const cross = prevDx * dy - prevDy * dx;
+		if (cross === 0) return false;
+		const s = cross > 0 ? 1 : -1;
+		if (sign === 0) sign = s;
+		else if (s !== sign) return false;
+		const xDir = Math.sign(dx);
+		if (xDir !== 0) {
+			if (lastXDir !== 0 && xDir !== lastXDir) flips++;
+			lastXDir = xDir;
+		}
+		prevDx = dx;
+		prevDy = dy;
+	}
+	return flips <= 2;
 }
 
 /**

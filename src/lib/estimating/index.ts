@@ -1,10 +1,10 @@
 import { accessRefusal, ladderPlacements, materialName, OSHA_STEEP_ROOF_RISE } from './access';
-import { buildBatches, facetMixGal, waterForSite, type MixNeed } from './chemistry';
+import { buildBatches, facetMixGal, waterForSite } from './chemistry';
 import { EstimateInputError, type EstimateIssue } from './errors';
 import { eaveLength, measureFacetPlan, type FacetPlan } from './geometry';
 import { applyTestSpot, EXPECTATIONS, suggestStrength } from './growth';
 import { applicationHours, jobLabour, ladderHours } from './labour';
-import { formatCents } from './money';
+import { fixed2, formatCents, shortNumber } from './money';
 import { NoteCollector } from './notes';
 import { pitchMultiplier } from './pitch';
 import { facetPriceCents, jobCost, jobPrice, marginPct } from './pricing';
@@ -14,8 +14,14 @@ import {
 	GROWTH_GRADES,
 	MATERIALS,
 	MAX_PITCH_RISE,
-	STORIES,
+	isAccessGrade,
+	isGrowthGrade,
+	isMaterial,
+	type AccessGrade,
 	type EstimateInput,
+	type GrowthGrade,
+	type Material,
+	type Stories,
 	type EstimateResult,
 	type FacetInput,
 	type FacetResult,
@@ -48,10 +54,7 @@ export function estimate(input: EstimateInput, rateCard: RateCard): EstimateResu
 	return r.value;
 }
 
-const MATERIAL_SET: ReadonlySet<string> = new Set(MATERIALS);
-const GROWTH_SET: ReadonlySet<string> = new Set(GROWTH_GRADES);
-const ACCESS_SET: ReadonlySet<string> = new Set(ACCESS_GRADES);
-const STORY_SET: ReadonlySet<number> = new Set(STORIES);
+const isStories = (v: unknown): boolean => v === 1 || v === 2 || v === 3;
 
 const isFiniteIn = (v: unknown, lo: number, hi: number): v is number =>
 	typeof v === 'number' && Number.isFinite(v) && v >= lo && v <= hi;
@@ -59,8 +62,7 @@ const isFiniteIn = (v: unknown, lo: number, hi: number): v is number =>
 /** Same as estimate() but returns the issues instead of throwing. */
 export function tryEstimate(input: EstimateInput, card: RateCard): EstimateOutcome {
 	const issues: EstimateIssue[] = [];
-	const issue = (path: EstimateIssue['path'], code: string, message: string) =>
-		issues.push({ path, code, message });
+	const issue = issueSink(issues);
 
 	const facetsIn: FacetInput[] = Array.isArray(input?.facets) ? input.facets : [];
 	if (facetsIn.length === 0) issue(['facets'], 'no_facets', 'facets must list at least one facet');
@@ -131,10 +133,10 @@ export function tryEstimate(input: EstimateInput, card: RateCard): EstimateOutco
 	const expectations = new NoteCollector();
 	const spotFacets = spot?.facetIds ? new Set(spot.facetIds) : null;
 	const steepRise = card.steepPitch.thresholdRise;
+	const details = new FacetDetailText(card);
 
 	const facets: FacetResult[] = new Array(facetsIn.length);
 	const facetLines: LineItem[] = new Array(facetsIn.length);
-	const needs: MixNeed[] = new Array(facetsIn.length);
 	let planAreaFt2 = 0;
 	let slopedAreaFt2 = 0;
 	let eaveLengthFt = 0;
@@ -189,7 +191,7 @@ export function tryEstimate(input: EstimateInput, card: RateCard): EstimateOutco
 
 		facets[i] = {
 			id: f.id,
-			...(f.label !== undefined ? { label: f.label } : {}),
+			label: f.label,
 			material: f.material,
 			growth: f.growth,
 			access: f.access,
@@ -217,13 +219,11 @@ export function tryEstimate(input: EstimateInput, card: RateCard): EstimateOutco
 			facetId: f.id,
 			label: f.label ?? `Facet ${f.id}`,
 			detail:
-				`${squares.toFixed(2)} sq × ${formatCents(mat.perSquareCents)}/sq (${materialName(f.material)})` +
-				` × ${gr.priceMultiplier} (${f.growth}) × ${ac.priceMultiplier} (${f.access})` +
-				` × ${st.priceMultiplier} (${f.stories} ${f.stories === 1 ? 'storey' : 'storeys'})` +
-				(steep ? ` × ${steepMult} (steep ${f.pitch}/12)` : ''),
+				`${fixed2(squares)} sq × ${details.material(f.material)}${details.growth(f.growth)}` +
+				`${details.access(f.access)}${details.stories(f.stories)}` +
+				(steep ? details.steep(f.pitch) : ''),
 			amountCents: priceCents
 		};
-		needs[i] = { facetId: f.id, strengthPct: decision.strengthPct, mixGal };
 
 		planAreaFt2 += plan.planAreaFt2;
 		slopedAreaFt2 += sloped;
@@ -240,17 +240,14 @@ export function tryEstimate(input: EstimateInput, card: RateCard): EstimateOutco
 	}
 
 	const chem = card.chemistry;
-	const { batches, problems } = buildBatches(needs, stockStrengthPct, chem);
+	const { batches, problems } = buildBatches(facets, stockStrengthPct, chem);
 	if (problems.length > 0) {
 		return {
 			ok: false,
 			issues: problems.map((p) => ({
 				path: stockPath,
 				code: 'stock_too_weak',
-				message: `${p.message} (facets ${needs
-					.filter((n) => Math.abs(n.strengthPct - p.strengthPct) < 1e-6)
-					.map((n) => n.facetId)
-					.join(', ')})`
+				message: `${p.message} (facets ${p.facetIds.join(', ')})`
 			}))
 		};
 	}
@@ -333,53 +330,155 @@ export function tryEstimate(input: EstimateInput, card: RateCard): EstimateOutco
 	};
 }
 
+/**
+ * The parts of a facet's price detail that depend only on the card, built at most once per
+ * estimate: turning numbers into text is the slowest step in pricing a facet. Arrays indexed by
+ * grade keep the lookups cheap.
+ */
+class FacetDetailText {
+	private readonly byMaterial: Array<string | undefined> = [
+		undefined,
+		undefined,
+		undefined,
+		undefined,
+		undefined,
+		undefined
+	];
+	private readonly byGrowth: Array<string | undefined> = [
+		undefined,
+		undefined,
+		undefined,
+		undefined,
+		undefined
+	];
+	private readonly byAccess: Array<string | undefined> = [
+		undefined,
+		undefined,
+		undefined,
+		undefined
+	];
+	private readonly byStories: Array<string | undefined> = [
+		undefined,
+		undefined,
+		undefined,
+		undefined
+	];
+	private steepText: string | undefined;
+	constructor(private readonly card: RateCard) {}
+	steep(pitch: number): string {
+		const mult = (this.steepText ??= ` × ${this.card.steepPitch.priceMultiplier} (steep `);
+		return `${mult}${shortNumber(pitch)}/12)`;
+	}
+	material(m: Material): string {
+		const k = materialIndex(m);
+		return (this.byMaterial[k] ??=
+			`${formatCents(this.card.materials[m].perSquareCents)}/sq (${materialName(m)})`);
+	}
+	growth(g: GrowthGrade): string {
+		const k = g.charCodeAt(1) - 48;
+		return (this.byGrowth[k] ??= ` × ${this.card.growth[g].priceMultiplier} (${g})`);
+	}
+	access(a: AccessGrade): string {
+		const k = a === 'ground' ? 0 : a === 'ladder' ? 1 : a === 'roof' ? 2 : 3;
+		return (this.byAccess[k] ??= ` × ${this.card.access[a].priceMultiplier} (${a})`);
+	}
+	stories(n: Stories): string {
+		return (this.byStories[n] ??=
+			` × ${this.card.stories[String(n) as '1' | '2' | '3'].priceMultiplier} (${n} ${n === 1 ? 'storey' : 'storeys'})`);
+	}
+}
+
+function materialIndex(m: Material): number {
+	switch (m) {
+		case 'asphalt_shingle':
+			return 0;
+		case 'clay_tile':
+			return 1;
+		case 'concrete_tile':
+			return 2;
+		case 'metal':
+			return 3;
+		case 'slate':
+			return 4;
+		default:
+			return 5;
+	}
+}
+
+type IssueSink = (path: EstimateIssue['path'], code: string, message: string) => void;
+
+function issueSink(issues: EstimateIssue[]): IssueSink {
+	return (path, code, message) => {
+		issues.push({ path, code, message });
+	};
+}
+
+function facetPath(i: number, ...rest: Array<string | number>): Array<string | number> {
+	return ['facets', i, ...rest];
+}
+
 function checkFacet(
 	f: FacetInput,
 	i: number,
 	seenIds: Set<string>,
-	issue: (path: EstimateIssue['path'], code: string, message: string) => void
+	issue: IssueSink
 ): FacetPlan | null {
-	const at = (...rest: Array<string | number>) => ['facets', i, ...rest];
 	if (!f || typeof f !== 'object') {
-		issue(at(), 'invalid', 'facet must be an object');
+		issue(facetPath(i), 'invalid', 'facet must be an object');
 		return null;
 	}
 	if (typeof f.id !== 'string' || f.id.length === 0) {
-		issue(at('id'), 'invalid', 'facet id must be a non-empty string');
+		issue(facetPath(i, 'id'), 'invalid', 'facet id must be a non-empty string');
 	} else if (seenIds.has(f.id)) {
-		issue(at('id'), 'duplicate_id', `facet id "${f.id}" is used twice`);
+		issue(facetPath(i, 'id'), 'duplicate_id', `facet id "${f.id}" is used twice`);
 	} else {
 		seenIds.add(f.id);
 	}
-	if (!MATERIAL_SET.has(f.material)) {
-		issue(at('material'), 'invalid_enum', `material must be one of: ${MATERIALS.join(', ')}`);
+	if (!isMaterial(f.material)) {
+		issue(
+			facetPath(i, 'material'),
+			'invalid_enum',
+			`material must be one of: ${MATERIALS.join(', ')}`
+		);
 	}
-	if (!GROWTH_SET.has(f.growth)) {
-		issue(at('growth'), 'invalid_enum', `growth must be one of: ${GROWTH_GRADES.join(', ')}`);
+	if (!isGrowthGrade(f.growth)) {
+		issue(
+			facetPath(i, 'growth'),
+			'invalid_enum',
+			`growth must be one of: ${GROWTH_GRADES.join(', ')}`
+		);
 	}
-	if (!ACCESS_SET.has(f.access)) {
-		issue(at('access'), 'invalid_enum', `access must be one of: ${ACCESS_GRADES.join(', ')}`);
+	if (!isAccessGrade(f.access)) {
+		issue(
+			facetPath(i, 'access'),
+			'invalid_enum',
+			`access must be one of: ${ACCESS_GRADES.join(', ')}`
+		);
 	}
-	if (!STORY_SET.has(f.stories)) {
-		issue(at('stories'), 'invalid', 'stories must be 1, 2 or 3');
+	if (!isStories(f.stories)) {
+		issue(facetPath(i, 'stories'), 'invalid', 'stories must be 1, 2 or 3');
 	}
 	if (!isFiniteIn(f.pitch, 0, MAX_PITCH_RISE)) {
-		issue(at('pitch'), 'invalid', `pitch must be a rise per 12 between 0 and ${MAX_PITCH_RISE}`);
+		issue(
+			facetPath(i, 'pitch'),
+			'invalid',
+			`pitch must be a rise per 12 between 0 and ${MAX_PITCH_RISE}`
+		);
 	}
-	if (MATERIAL_SET.has(f.material) && ACCESS_SET.has(f.access)) {
+	if (isMaterial(f.material) && isAccessGrade(f.access)) {
 		const refusal = accessRefusal(f.material, f.access);
-		if (refusal) issue(at('access'), 'access_refused', refusal);
+		if (refusal) issue(facetPath(i, 'access'), 'access_refused', refusal);
 	}
 	const r = measureFacetPlan(f.polygon);
 	if (!r.ok) {
-		for (const g of r.issues) issue(at(...g.path), g.code, g.message);
+		for (const g of r.issues) issue(facetPath(i, ...g.path), g.code, g.message);
 		return null;
 	}
 	if (f.edges !== undefined) {
 		const segments = r.plan.segmentLengthsFt.length;
 		if (!Array.isArray(f.edges) || f.edges.length !== segments) {
 			issue(
-				at('edges'),
+				facetPath(i, 'edges'),
 				'edges_length',
 				`edges must give one label (or null) per ring segment: ${segments} expected`
 			);
@@ -398,11 +497,12 @@ function collectFacetNotes(
 	expectations: NoteCollector
 ): void {
 	if (eaveEstimated) {
-		warnings.add(
+		warnings.addForField(
 			'eave.estimated',
 			'eave length estimated as the longest unlabelled edge; label the eave edges for exact ladder set-ups and water',
 			f.id,
-			`facets.${i}.edges`
+			i,
+			'edges'
 		);
 	}
 	if (f.growth === 'G3' || f.growth === 'G4')

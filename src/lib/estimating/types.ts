@@ -10,13 +10,35 @@ export const MATERIALS = [
 ] as const;
 export type Material = (typeof MATERIALS)[number];
 
+export function isMaterial(v: unknown): v is Material {
+	switch (v) {
+		case 'asphalt_shingle':
+		case 'clay_tile':
+		case 'concrete_tile':
+		case 'metal':
+		case 'slate':
+		case 'wood_shake':
+			return true;
+		default:
+			return false;
+	}
+}
+
 /** Clearpitch's growth grades: G0 clean … G4 severe with lichen or moss. */
 export const GROWTH_GRADES = ['G0', 'G1', 'G2', 'G3', 'G4'] as const;
 export type GrowthGrade = (typeof GROWTH_GRADES)[number];
 
+export function isGrowthGrade(v: unknown): v is GrowthGrade {
+	return v === 'G0' || v === 'G1' || v === 'G2' || v === 'G3' || v === 'G4';
+}
+
 /** Clearpitch's access grades. */
 export const ACCESS_GRADES = ['ground', 'ladder', 'roof', 'lift'] as const;
 export type AccessGrade = (typeof ACCESS_GRADES)[number];
+
+export function isAccessGrade(v: unknown): v is AccessGrade {
+	return v === 'ground' || v === 'ladder' || v === 'roof' || v === 'lift';
+}
 
 export const EDGE_KINDS = ['eave', 'rake', 'ridge', 'hip', 'valley'] as const;
 export type EdgeKind = (typeof EDGE_KINDS)[number];

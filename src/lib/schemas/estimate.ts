@@ -36,6 +36,15 @@ const oneOf = <T extends readonly [string, ...string[]]>(field: string, values: 
 				: `${field} must be one of: ${values.join(', ')} (got ${JSON.stringify(iss.input)})`
 	});
 
+/** A strict object whose type and unknown-key errors both name it. */
+const strict = <S extends z.core.$ZodLooseShape>(name: string, shape: S) =>
+	z.strictObject(shape, {
+		error: (iss) =>
+			iss.code === 'unrecognized_keys'
+				? `unknown field${iss.keys.length === 1 ? '' : 's'} in ${name}: ${iss.keys.join(', ')}`
+				: `${name} must be an object`
+	});
+
 const lon = num('longitude', -180, 180, 'a finite number (GeoJSON order is [lon, lat])');
 const lat = num('latitude', -90, 90, 'a finite number (GeoJSON order is [lon, lat])');
 const position = z.tuple([lon, lat], z.number({ error: 'altitude must be a finite number' }), {
@@ -57,29 +66,23 @@ const ring = z
 		}
 	});
 
-export const polygonSchema = z.strictObject(
-	{
-		type: z.literal('Polygon', { error: 'polygon type must be "Polygon"' }),
-		coordinates: z
-			.array(ring, { error: 'polygon coordinates must be an array of rings' })
-			.length(1, {
-				error:
-					'polygon must have exactly one ring (holes are not supported: outline the whole facet)'
-			}),
-		bbox: z
-			.union(
-				[
-					z.tuple([z.number(), z.number(), z.number(), z.number()]),
-					z.tuple([z.number(), z.number(), z.number(), z.number(), z.number(), z.number()])
-				],
-				{
-					error: 'polygon bbox must have 4 or 6 numbers'
-				}
-			)
-			.optional()
-	},
-	{ error: 'polygon must be a GeoJSON Polygon object' }
-);
+export const polygonSchema = strict('polygon (a GeoJSON Polygon)', {
+	type: z.literal('Polygon', { error: 'polygon type must be "Polygon"' }),
+	coordinates: z.array(ring, { error: 'polygon coordinates must be an array of rings' }).length(1, {
+		error: 'polygon must have exactly one ring (holes are not supported: outline the whole facet)'
+	}),
+	bbox: z
+		.union(
+			[
+				z.tuple([z.number(), z.number(), z.number(), z.number()]),
+				z.tuple([z.number(), z.number(), z.number(), z.number(), z.number(), z.number()])
+			],
+			{
+				error: 'polygon bbox must have 4 or 6 numbers'
+			}
+		)
+		.optional()
+});
 
 const idString = (field: string) =>
 	z
@@ -87,46 +90,51 @@ const idString = (field: string) =>
 		.min(1, { error: `${field} must not be empty` })
 		.max(100, { error: `${field} must be at most 100 characters` });
 
-export const facetSchema = z
-	.strictObject({
-		id: idString('facet id'),
-		label: z
-			.string({ error: 'label must be a string' })
-			.max(100, { error: 'label must be at most 100 characters' })
-			.optional(),
-		polygon: polygonSchema,
-		pitch: num('pitch', 0, MAX_PITCH_RISE, 'a number (rise in inches per 12 in of run)'),
-		material: oneOf('material', MATERIALS),
-		growth: oneOf('growth', GROWTH_GRADES),
-		access: oneOf('access', ACCESS_GRADES),
-		stories: z.union([z.literal(1), z.literal(2), z.literal(3)], {
-			error: 'stories must be 1, 2 or 3'
-		}),
-		edges: z
-			.array(z.enum(EDGE_KINDS).nullable(), {
+export const facetSchema = strict('facet', {
+	id: idString('facet id'),
+	label: z
+		.string({ error: 'label must be a string' })
+		.max(100, { error: 'label must be at most 100 characters' })
+		.optional(),
+	polygon: polygonSchema,
+	pitch: num('pitch', 0, MAX_PITCH_RISE, 'a number (rise in inches per 12 in of run)'),
+	material: oneOf('material', MATERIALS),
+	growth: oneOf('growth', GROWTH_GRADES),
+	access: oneOf('access', ACCESS_GRADES),
+	stories: z.union([z.literal(1), z.literal(2), z.literal(3)], {
+		error: 'stories must be 1, 2 or 3'
+	}),
+	edges: z
+		.array(
+			z
+				.enum(EDGE_KINDS, {
+					error: `each edge must be one of: ${EDGE_KINDS.join(', ')}, or null when not labelled`
+				})
+				.nullable(),
+			{
 				error: `edges must be an array of ${EDGE_KINDS.join(', ')} or null, one per ring segment`
-			})
-			.optional()
-	})
-	.superRefine((f, ctx) => {
-		const segments = f.polygon.coordinates[0].length - 1;
-		if (f.edges && f.edges.length !== segments) {
-			ctx.addIssue({
-				code: 'custom',
-				path: ['edges'],
-				message: `edges must give one label (or null) per ring segment: ${segments} expected, ${f.edges.length} given`
-			});
-		}
-	});
+			}
+		)
+		.optional()
+}).superRefine((f, ctx) => {
+	const segments = f.polygon.coordinates[0].length - 1;
+	if (f.edges && f.edges.length !== segments) {
+		ctx.addIssue({
+			code: 'custom',
+			path: ['edges'],
+			message: `edges must give one label (or null) per ring segment: ${segments} expected, ${f.edges.length} given`
+		});
+	}
+});
 
-export const testSpotSchema = z.strictObject({
+export const testSpotSchema = strict('testSpot', {
 	strengthPct: num('testSpot.strengthPct', 0.1, 20),
 	secondsToColourChange: num('testSpot.secondsToColourChange', 0, 3600, 'a number of seconds'),
 	rinsedClean: z.boolean({ error: required('testSpot.rinsedClean', 'true or false') }),
 	facetIds: z.array(idString('testSpot facet id')).optional()
 });
 
-export const extraSchema = z.strictObject({
+export const extraSchema = strict('extra', {
 	label: z
 		.string({ error: required('extra label', 'a string') })
 		.min(1, { error: 'extra label must not be empty' })
@@ -140,55 +148,51 @@ export const extraSchema = z.strictObject({
 
 const uuid = (field: string) => z.uuid({ error: `${field} must be a UUID` });
 
-export const estimateRequestSchema = z
-	.strictObject({
-		facets: z
-			.array(facetSchema, { error: required('facets', 'an array of facets') })
-			.min(1, { error: 'facets must list at least one facet' })
-			.max(MAX_FACETS, { error: `facets may list at most ${MAX_FACETS} facets` }),
-		siteId: uuid('siteId').optional(),
-		roofPlanId: uuid('roofPlanId').optional(),
-		rateCardId: uuid('rateCardId').optional(),
-		stockStrengthPct: num('stockStrengthPct', 0.1, 100).optional(),
-		testSpot: testSpotSchema.optional(),
-		extras: z
-			.array(extraSchema, { error: 'extras must be an array' })
-			.max(MAX_EXTRAS, { error: `extras may list at most ${MAX_EXTRAS} items` })
-			.optional(),
-		discountPct: num('discountPct', 0, 100).optional(),
-		measuredOnSite: z.boolean({ error: 'measuredOnSite must be true or false' }).optional(),
-		siteFlags: z
-			.strictObject({
-				noGutters: z.boolean({ error: 'siteFlags.noGutters must be true or false' }).optional(),
-				plantsToProtect: z
-					.boolean({ error: 'siteFlags.plantsToProtect must be true or false' })
-					.optional()
-			})
-			.optional(),
-		save: z.boolean({ error: 'save must be true or false' }).optional()
-	})
-	.superRefine((body, ctx) => {
-		const seen = new Set<string>();
-		body.facets.forEach((f, i) => {
-			if (seen.has(f.id)) {
-				ctx.addIssue({
-					code: 'custom',
-					path: ['facets', i, 'id'],
-					message: `facet id "${f.id}" is used twice`
-				});
-			}
-			seen.add(f.id);
-		});
-		body.testSpot?.facetIds?.forEach((id, k) => {
-			if (!seen.has(id)) {
-				ctx.addIssue({
-					code: 'custom',
-					path: ['testSpot', 'facetIds', k],
-					message: `testSpot.facetIds names unknown facet "${id}"`
-				});
-			}
-		});
+export const estimateRequestSchema = strict('the request body', {
+	facets: z
+		.array(facetSchema, { error: required('facets', 'an array of facets') })
+		.min(1, { error: 'facets must list at least one facet' })
+		.max(MAX_FACETS, { error: `facets may list at most ${MAX_FACETS} facets` }),
+	siteId: uuid('siteId').optional(),
+	roofPlanId: uuid('roofPlanId').optional(),
+	rateCardId: uuid('rateCardId').optional(),
+	stockStrengthPct: num('stockStrengthPct', 0.1, 100).optional(),
+	testSpot: testSpotSchema.optional(),
+	extras: z
+		.array(extraSchema, { error: 'extras must be an array' })
+		.max(MAX_EXTRAS, { error: `extras may list at most ${MAX_EXTRAS} items` })
+		.optional(),
+	discountPct: num('discountPct', 0, 100).optional(),
+	measuredOnSite: z.boolean({ error: 'measuredOnSite must be true or false' }).optional(),
+	siteFlags: strict('siteFlags', {
+		noGutters: z.boolean({ error: 'siteFlags.noGutters must be true or false' }).optional(),
+		plantsToProtect: z
+			.boolean({ error: 'siteFlags.plantsToProtect must be true or false' })
+			.optional()
+	}).optional(),
+	save: z.boolean({ error: 'save must be true or false' }).optional()
+}).superRefine((body, ctx) => {
+	const seen = new Set<string>();
+	body.facets.forEach((f, i) => {
+		if (seen.has(f.id)) {
+			ctx.addIssue({
+				code: 'custom',
+				path: ['facets', i, 'id'],
+				message: `facet id "${f.id}" is used twice`
+			});
+		}
+		seen.add(f.id);
 	});
+	body.testSpot?.facetIds?.forEach((id, k) => {
+		if (!seen.has(id)) {
+			ctx.addIssue({
+				code: 'custom',
+				path: ['testSpot', 'facetIds', k],
+				message: `testSpot.facetIds names unknown facet "${id}"`
+			});
+		}
+	});
+});
 
 export type EstimateRequest = z.infer<typeof estimateRequestSchema>;
 export type FacetRequest = z.infer<typeof facetSchema>;
