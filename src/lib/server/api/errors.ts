@@ -36,7 +36,8 @@ export function issuesOf(
 
 export function invalid(issues: ApiIssue[], what = 'request'): ApiError {
 	const names = [...new Set(issues.map((i) => i.path || 'body'))];
-	const shown = names.slice(0, 5).join(', ') + (names.length > 5 ? ', …' : '');
+	const shown =
+		names.slice(0, 5).join(', ') + (names.length > 5 ? ` and ${names.length - 5} more` : '');
 	return new ApiError(
 		400,
 		`The ${what} has ${issues.length === 1 ? 'a problem' : `${issues.length} problems`}: ${shown}.`,

@@ -1,0 +1,29 @@
+import { error, fail } from '@sveltejs/kit';
+import { formObject } from '$lib/schemas/form';
+import { ApiError } from '$lib/server/api/errors';
+import { estimatePatchSchema } from '$lib/server/api/schemas';
+import { requireRole } from '$lib/server/auth/guard';
+import { changeStatus, getEstimate, nextStatusesFor } from '$lib/server/services/estimates';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = async (event) => {
+	const user = requireRole(event, 'owner', 'estimator', 'sales');
+	const estimate = await getEstimate(user.companyId, event.params.id);
+	if (!estimate) error(404, 'No such estimate.');
+	return { estimate, nextStatuses: nextStatusesFor(estimate.status, user.role) };
+};
+
+export const actions: Actions = {
+	status: async (event) => {
+		const user = requireRole(event, 'owner', 'estimator', 'sales');
+		const parsed = estimatePatchSchema.safeParse(formObject(await event.request.formData()));
+		if (!parsed.success) return fail(400, { message: parsed.error.issues[0].message });
+		try {
+			const moved = await changeStatus(user, event.params.id, parsed.data.status);
+			return { done: `Marked ${moved.status}.` };
+		} catch (e) {
+			if (e instanceof ApiError) return fail(e.status, { message: e.message });
+			throw e;
+		}
+	}
+};
