@@ -739,32 +739,67 @@ function roundedRect(x0: number, y0: number, x1: number, y1: number, r: number):
 	];
 }
 
+/** Deterministic PRNG for the scattered trees. */
+function mulberry32(seed: number) {
+	let a = seed >>> 0;
+	return () => {
+		a = (a + 0x6d2b79f5) >>> 0;
+		let t = a;
+		t = Math.imul(t ^ (t >>> 15), t | 1);
+		t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+		return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+	};
+}
+
+function distToSeg(p: Pt, a: Pt, b: Pt) {
+	const dx = b[0] - a[0];
+	const dy = b[1] - a[1];
+	const t = Math.max(0, Math.min(1, ((p[0] - a[0]) * dx + (p[1] - a[1]) * dy) / (dx * dx + dy * dy)));
+	return Math.hypot(a[0] + t * dx - p[0], a[1] + t * dy - p[1]);
+}
+function distToLine(p: Pt, pts: Pt[]) {
+	let d = Infinity;
+	for (let i = 0; i < pts.length - 1; i++) d = Math.min(d, distToSeg(p, pts[i], pts[i + 1]));
+	return d;
+}
+function distToRing(p: Pt, ring: Pt[]) {
+	return distToLine(p, [...ring, ring[0]]);
+}
+function inRing(p: Pt, ring: Pt[]) {
+	let c = false;
+	for (let i = 0, j = ring.length - 1; i < ring.length; j = i++) {
+		const [xi, yi] = ring[i];
+		const [xj, yj] = ring[j];
+		if (yi > p[1] !== yj > p[1] && p[0] < ((xj - xi) * (p[1] - yi)) / (yj - yi) + xi) c = !c;
+	}
+	return c;
+}
+
 const LOOP = { west: 60, east: 150, cy: 85, r: 45 };
 const COURT = { x: 10, cy: -78, r: 13 };
 
 function context(): Feature[] {
 	const f: Feature[] = [];
 	// Streets run well past the neighbourhood so the imagery never shows a road stopping dead.
-	f.push(
-		line({ kind: 'street', name: 'Tidewater Lane', widthM: 9, sidewalkM: 1.5, vergeM: 1.0 }, [
-			[-260, 1.5],
-			[-120, 0.5],
-			[0, 0],
-			[120, -0.5],
-			[260, -2]
-		]),
-		line({ kind: 'street', name: 'Alder Loop', widthM: 7.5, sidewalkM: 1.5, vergeM: 1.0 }, [
-			[LOOP.west, 0],
-			[LOOP.west, LOOP.cy],
-			...arc((LOOP.west + LOOP.east) / 2, LOOP.cy, LOOP.r, 180, 0, 36).slice(1, -1),
-			[LOOP.east, LOOP.cy],
-			[LOOP.east, 0]
-		]),
-		line({ kind: 'street', name: 'Saltmarsh Court', widthM: 7, sidewalkM: 0, vergeM: 0 }, [
-			[COURT.x, 0],
-			...arc(COURT.x, COURT.cy, COURT.r, 90, 450, 48)
-		])
-	);
+	const streets: [string, number, number, number, Pt[]][] = [
+		['Tidewater Lane', 9, 1.5, 1.0, [[-260, 1.5], [-120, 0.5], [0, 0], [120, -0.5], [260, -2]]],
+		[
+			'Alder Loop',
+			7.5,
+			1.5,
+			1.0,
+			[
+				[LOOP.west, 0],
+				[LOOP.west, LOOP.cy],
+				...arc((LOOP.west + LOOP.east) / 2, LOOP.cy, LOOP.r, 180, 0, 36).slice(1, -1),
+				[LOOP.east, LOOP.cy],
+				[LOOP.east, 0]
+			]
+		],
+		['Saltmarsh Court', 7, 0, 0, [[COURT.x, 0], ...arc(COURT.x, COURT.cy, COURT.r, 90, 450, 48)]]
+	];
+	for (const [name, widthM, sidewalkM, vergeM, pts] of streets)
+		f.push(line({ kind: 'street', name, widthM, sidewalkM, vergeM }, pts));
 
 	const parcels: [string, Pt[], string][] = [
 		['h01', rect(-136, -56, -100, -6.75), 'lush'],
@@ -780,7 +815,7 @@ function context(): Feature[] {
 	];
 	for (const [houseId, ring, lawn] of parcels) f.push(polygon({ kind: 'parcel', houseId, lawn }, ring));
 	f.push(
-		polygon({ kind: 'lawn', name: 'Alder Loop green', lawn: 'fresh' }, rect(66.75, 6.75, 143.25, 38)),
+		polygon({ kind: 'lawn', name: 'Alder Loop green', lawn: 'fresh' }, rect(66.75, 7.25, 143.25, 38)),
 		polygon(
 			{ kind: 'lawn', name: 'Saltmarsh Court island', lawn: 'lush' },
 			arc(COURT.x, COURT.cy, 8.2, 0, 360, 40).slice(0, -1)
@@ -839,7 +874,7 @@ function context(): Feature[] {
 	);
 
 	const trees: [Pt, number, number, 'broadleaf' | 'conifer', string?][] = [
-		[[-116, -15.5], 6.5, 13, 'broadleaf', 'h01'],
+		[[-122.5, -15.5], 6.5, 13, 'broadleaf', 'h01'],
 		[[-36.5, -80], 5.5, 16, 'conifer', 'h08'],
 		[[-70, -46], 4.5, 9, 'broadleaf'],
 		[[-129, -46], 5, 11, 'broadleaf'],
@@ -859,6 +894,33 @@ function context(): Feature[] {
 		[[90, 20], 4.5, 10, 'broadleaf'],
 		[[125, 24], 4, 9, 'conifer']
 	];
+	// Woods and hedgerow trees fill the open ground between parcels, as in any leafy suburb.
+	// They keep clear of parcels, greens, streets and each other, so none reaches a roof.
+	const keepOut = [...parcels.map(([, ring]) => ring), rect(66.75, 7.25, 143.25, 38)];
+	const rnd = mulberry32(0x77e3f1ed);
+	const scatter: [Pt[], number][] = [
+		[rect(-138, 14, -8, 132), 34],
+		[rect(-6, 72, 56, 132), 9],
+		[rect(-138, -78, -28, -60), 9],
+		[rect(-60, -134, 70, -102), 8],
+		[rect(72, 92, 138, 124), 5]
+	];
+	for (const [area, count] of scatter) {
+		let placed = 0;
+		for (let tries = 0; placed < count && tries < 4000; tries++) {
+			const [x0, y0] = area[0];
+			const [x1, y1] = area[2];
+			const p: Pt = [x0 + rnd() * (x1 - x0), y0 + rnd() * (y1 - y0)];
+			const r = 2.8 + rnd() * 3.4;
+			const conifer = rnd() < 0.3;
+			if (keepOut.some((ring) => distToRing(p, ring) < r + 1.5 || inRing(p, ring))) continue;
+			if (streets.some(([, w, walk, verge, pts]) => distToLine(p, pts) < w / 2 + walk + verge + r * 0.6)) continue;
+			if (trees.some(([q, rq]) => Math.hypot(q[0] - p[0], q[1] - p[1]) < (r + rq) * 0.8)) continue;
+			if (Math.hypot(p[0] - 105, p[1] - LOOP.cy) > LOOP.r - 7 - r && area === scatter[4][0]) continue;
+			trees.push([p, Math.round(r * 10) / 10, Math.round((r * 2.1 + 2 + rnd() * 4) * 10) / 10, conifer ? 'conifer' : 'broadleaf']);
+			placed++;
+		}
+	}
 	trees.forEach(([p, crownRadiusM, heightM, form, overhangs], i) =>
 		f.push(
 			point(
