@@ -35,26 +35,24 @@ export async function readJson(request: Request, limit = MAX_JSON_BYTES): Promis
 }
 
 async function readCapped(request: Request, limit: number): Promise<string> {
-	const tooLarge = () =>
-		new ApiError(413, `The request body is larger than ${Math.round(limit / 1024)} KB.`);
-	const declared = Number(request.headers.get('content-length'));
-	if (Number.isFinite(declared) && declared > limit) {
-		await request.body?.cancel().catch(() => {});
-		throw tooLarge();
-	}
 	if (!request.body) return '';
 	const reader = request.body.getReader();
 	const chunks: Uint8Array[] = [];
 	let size = 0;
-	for (;;) {
-		const { done, value } = await reader.read();
-		if (done) break;
-		size += value.byteLength;
-		if (size > limit) {
-			await reader.cancel().catch(() => {});
-			throw tooLarge();
+	try {
+		for (;;) {
+			const { done, value } = await reader.read();
+			if (done) break;
+			size += value.byteLength;
+			// Past the cap nothing more is kept, but the rest is drained (adapter-node's
+			// BODY_SIZE_LIMIT bounds it) so the client gets its 413 instead of a reset connection.
+			if (size <= limit) chunks.push(value);
 		}
-		chunks.push(value);
+	} catch (e) {
+		if (size <= limit) throw e;
+	}
+	if (size > limit) {
+		throw new ApiError(413, `The request body is larger than ${Math.round(limit / 1024)} KB.`);
 	}
 	return new TextDecoder('utf-8', { fatal: false }).decode(concat(chunks, size));
 }
