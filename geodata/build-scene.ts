@@ -17,12 +17,7 @@ import geographiclib from 'geographiclib-geodesic';
 
 export type Edge = 'eave' | 'rake' | 'ridge' | 'hip' | 'valley';
 export type Material =
-	| 'asphalt_shingle'
-	| 'clay_tile'
-	| 'concrete_tile'
-	| 'metal'
-	| 'slate'
-	| 'wood_shake';
+	'asphalt_shingle' | 'clay_tile' | 'concrete_tile' | 'metal' | 'slate' | 'wood_shake';
 export type Growth = 'G0' | 'G1' | 'G2' | 'G3' | 'G4';
 export type Access = 'ground' | 'ladder' | 'roof' | 'lift';
 export type Section = 'main' | 'wing' | 'garage' | 'porch' | 'dormer';
@@ -153,25 +148,75 @@ function hip(w: number, d: number, s: Common, e: Common, n: Common, wst: Common)
 	const pyramid = r === 0;
 	return [
 		pyramid
-			? { ...s, section: 'main', name: '{Dir} slope', pts: [[-a, -b], [a, -b], [0, 0]], edges: ['eave', 'hip', 'hip'] }
+			? {
+					...s,
+					section: 'main',
+					name: '{Dir} slope',
+					pts: [
+						[-a, -b],
+						[a, -b],
+						[0, 0]
+					],
+					edges: ['eave', 'hip', 'hip']
+				}
 			: {
 					...s,
 					section: 'main',
 					name: '{Dir} slope',
-					pts: [[-a, -b], [a, -b], [r, 0], [-r, 0]],
+					pts: [
+						[-a, -b],
+						[a, -b],
+						[r, 0],
+						[-r, 0]
+					],
 					edges: ['eave', 'hip', 'ridge', 'hip']
 				},
-		{ ...e, section: 'main', name: pyramid ? '{Dir} slope' : '{Dir} hip end', pts: [[a, -b], [a, b], [r, 0]], edges: ['eave', 'hip', 'hip'] },
+		{
+			...e,
+			section: 'main',
+			name: pyramid ? '{Dir} slope' : '{Dir} hip end',
+			pts: [
+				[a, -b],
+				[a, b],
+				[r, 0]
+			],
+			edges: ['eave', 'hip', 'hip']
+		},
 		pyramid
-			? { ...n, section: 'main', name: '{Dir} slope', pts: [[a, b], [-a, b], [0, 0]], edges: ['eave', 'hip', 'hip'] }
+			? {
+					...n,
+					section: 'main',
+					name: '{Dir} slope',
+					pts: [
+						[a, b],
+						[-a, b],
+						[0, 0]
+					],
+					edges: ['eave', 'hip', 'hip']
+				}
 			: {
 					...n,
 					section: 'main',
 					name: '{Dir} slope',
-					pts: [[-r, 0], [r, 0], [a, b], [-a, b]],
+					pts: [
+						[-r, 0],
+						[r, 0],
+						[a, b],
+						[-a, b]
+					],
 					edges: ['ridge', 'hip', 'eave', 'hip']
 				},
-		{ ...wst, section: 'main', name: pyramid ? '{Dir} slope' : '{Dir} hip end', pts: [[-a, b], [-a, -b], [-r, 0]], edges: ['eave', 'hip', 'hip'] }
+		{
+			...wst,
+			section: 'main',
+			name: pyramid ? '{Dir} slope' : '{Dir} hip end',
+			pts: [
+				[-a, b],
+				[-a, -b],
+				[-r, 0]
+			],
+			edges: ['eave', 'hip', 'hip']
+		}
 	];
 }
 
@@ -192,7 +237,16 @@ function base(
 	access: Access = 'ground',
 	notes?: string
 ): Common {
-	return { material, pitch, stories, eaveHeightM, shade, growth, access, ...(notes ? { notes } : {}) };
+	return {
+		material,
+		pitch,
+		stories,
+		eaveHeightM,
+		shade,
+		growth,
+		access,
+		...(notes ? { notes } : {})
+	};
 }
 
 /** Weathered-wood laminated shingle shared by h01 and h02, so the two differ only in growth. */
@@ -209,28 +263,54 @@ function h03Facets(): FacetDef[] {
 			...m('G1'),
 			section: 'main',
 			name: '{Dir} slope',
-			pts: [[-8, -4], [8, -4], [8, 0], [-8, 0]],
+			pts: [
+				[-8, -4],
+				[8, -4],
+				[8, 0],
+				[-8, 0]
+			],
 			edges: ['eave', 'rake', 'ridge', 'rake']
 		},
 		{
 			...m('G3'),
 			section: 'main',
 			name: '{Dir} slope',
-			pts: [[-8, 0], [8, 0], [8, 4], [5, 1], [2, 4], [-8, 4]],
+			pts: [
+				[-8, 0],
+				[8, 0],
+				[8, 4],
+				[5, 1],
+				[2, 4],
+				[-8, 4]
+			],
 			edges: ['ridge', 'rake', 'valley', 'valley', 'eave', 'rake']
 		},
 		{
 			...m('G2'),
 			section: 'wing',
 			name: 'Wing {dir} slope',
-			pts: [[2, 4], [5, 1], [5, 10], [2, 10]],
+			pts: [
+				[2, 4],
+				[5, 1],
+				[5, 10],
+				[2, 10]
+			],
 			edges: ['valley', 'ridge', 'rake', 'eave']
 		},
 		{
-			...m('G3', 'ladder', 'Fence 1.4 m off the wall with shrubs between: ladder only, no room to spray from the ground.'),
+			...m(
+				'G3',
+				'ladder',
+				'Fence 1.4 m off the wall with shrubs between: ladder only, no room to spray from the ground.'
+			),
 			section: 'wing',
 			name: 'Wing {dir} slope',
-			pts: [[5, 1], [8, 4], [8, 10], [5, 10]],
+			pts: [
+				[5, 1],
+				[8, 4],
+				[8, 10],
+				[5, 10]
+			],
 			edges: ['valley', 'eave', 'rake', 'ridge']
 		}
 	];
@@ -243,23 +323,100 @@ function h04Facets(): FacetDef[] {
 	const NEW = '#c98552';
 	const m = (g: Growth) => base('clay_tile', 5, 1, 3.0, OLD, g);
 	const gar = (g: Growth) => ({
-		...base('clay_tile', 5, 1, 3.0, NEW, g, 'ground', 'Garage added later; its tiles are from another batch and read lighter.'),
+		...base(
+			'clay_tile',
+			5,
+			1,
+			3.0,
+			NEW,
+			g,
+			'ground',
+			'Garage added later; its tiles are from another batch and read lighter.'
+		),
 		section: 'garage' as const
 	});
 	return [
-		{ ...m('G1'), section: 'main', name: '{Dir} slope', pts: [[-7, -5], [7, -5], [2, 0], [-2, 0]], edges: ['eave', 'hip', 'ridge', 'hip'] },
-		{ ...m('G3'), section: 'main', name: '{Dir} slope', pts: [[-2, 0], [2, 0], [7, 5], [-7, 5]], edges: ['ridge', 'hip', 'eave', 'hip'] },
-		{ ...m('G2'), section: 'main', name: '{Dir} hip end', pts: [[-7, 5], [-7, -5], [-2, 0]], edges: ['eave', 'hip', 'hip'] },
+		{
+			...m('G1'),
+			section: 'main',
+			name: '{Dir} slope',
+			pts: [
+				[-7, -5],
+				[7, -5],
+				[2, 0],
+				[-2, 0]
+			],
+			edges: ['eave', 'hip', 'ridge', 'hip']
+		},
+		{
+			...m('G3'),
+			section: 'main',
+			name: '{Dir} slope',
+			pts: [
+				[-2, 0],
+				[2, 0],
+				[7, 5],
+				[-7, 5]
+			],
+			edges: ['ridge', 'hip', 'eave', 'hip']
+		},
 		{
 			...m('G2'),
 			section: 'main',
 			name: '{Dir} hip end',
-			pts: [[7, -5], [7, -3], [4.5, -0.5], [7, 2], [7, 5], [2, 0]],
+			pts: [
+				[-7, 5],
+				[-7, -5],
+				[-2, 0]
+			],
+			edges: ['eave', 'hip', 'hip']
+		},
+		{
+			...m('G2'),
+			section: 'main',
+			name: '{Dir} hip end',
+			pts: [
+				[7, -5],
+				[7, -3],
+				[4.5, -0.5],
+				[7, 2],
+				[7, 5],
+				[2, 0]
+			],
 			edges: ['eave', 'valley', 'valley', 'eave', 'hip', 'hip']
 		},
-		{ ...gar('G1'), name: 'Garage {dir} slope', pts: [[7, -3], [13, -3], [10.5, -0.5], [4.5, -0.5]], edges: ['eave', 'hip', 'ridge', 'valley'] },
-		{ ...gar('G1'), name: 'Garage {dir} slope', pts: [[4.5, -0.5], [10.5, -0.5], [13, 2], [7, 2]], edges: ['ridge', 'hip', 'eave', 'valley'] },
-		{ ...gar('G0'), name: 'Garage {dir} hip end', pts: [[13, -3], [13, 2], [10.5, -0.5]], edges: ['eave', 'hip', 'hip'] }
+		{
+			...gar('G1'),
+			name: 'Garage {dir} slope',
+			pts: [
+				[7, -3],
+				[13, -3],
+				[10.5, -0.5],
+				[4.5, -0.5]
+			],
+			edges: ['eave', 'hip', 'ridge', 'valley']
+		},
+		{
+			...gar('G1'),
+			name: 'Garage {dir} slope',
+			pts: [
+				[4.5, -0.5],
+				[10.5, -0.5],
+				[13, 2],
+				[7, 2]
+			],
+			edges: ['ridge', 'hip', 'eave', 'valley']
+		},
+		{
+			...gar('G0'),
+			name: 'Garage {dir} hip end',
+			pts: [
+				[13, -3],
+				[13, 2],
+				[10.5, -0.5]
+			],
+			edges: ['eave', 'hip', 'hip']
+		}
 	];
 }
 
@@ -273,17 +430,69 @@ function h06Facets(): FacetDef[] {
 			...m('G1'),
 			section: 'main',
 			name: '{Dir} slope',
-			pts: [[-6.5, -5], [-4, -5], [3, -5], [6.5, -5], [1.5, 0], [-1.5, 0]],
+			pts: [
+				[-6.5, -5],
+				[-4, -5],
+				[3, -5],
+				[6.5, -5],
+				[1.5, 0],
+				[-1.5, 0]
+			],
 			edges: ['eave', 'eave', 'eave', 'hip', 'ridge', 'hip']
 		},
-		{ ...m('G2'), section: 'main', name: '{Dir} hip end', pts: [[6.5, -5], [6.5, 5], [1.5, 0]], edges: ['eave', 'hip', 'hip'] },
-		{ ...m('G3'), section: 'main', name: '{Dir} slope', pts: [[-1.5, 0], [1.5, 0], [6.5, 5], [-6.5, 5]], edges: ['ridge', 'hip', 'eave', 'hip'] },
-		{ ...m('G2'), section: 'main', name: '{Dir} hip end', pts: [[-6.5, 5], [-6.5, -5], [-1.5, 0]], edges: ['eave', 'hip', 'hip'] },
 		{
-			...base('metal', 2, 1, 2.7, '#9aa0a3', 'G1', 'ground', 'Low-slope porch roof; its high edge meets the front wall under the main eave.'),
+			...m('G2'),
+			section: 'main',
+			name: '{Dir} hip end',
+			pts: [
+				[6.5, -5],
+				[6.5, 5],
+				[1.5, 0]
+			],
+			edges: ['eave', 'hip', 'hip']
+		},
+		{
+			...m('G3'),
+			section: 'main',
+			name: '{Dir} slope',
+			pts: [
+				[-1.5, 0],
+				[1.5, 0],
+				[6.5, 5],
+				[-6.5, 5]
+			],
+			edges: ['ridge', 'hip', 'eave', 'hip']
+		},
+		{
+			...m('G2'),
+			section: 'main',
+			name: '{Dir} hip end',
+			pts: [
+				[-6.5, 5],
+				[-6.5, -5],
+				[-1.5, 0]
+			],
+			edges: ['eave', 'hip', 'hip']
+		},
+		{
+			...base(
+				'metal',
+				2,
+				1,
+				2.7,
+				'#9aa0a3',
+				'G1',
+				'ground',
+				'Low-slope porch roof; its high edge meets the front wall under the main eave.'
+			),
 			section: 'porch',
 			name: 'Porch roof',
-			pts: [[-4, -7.6], [3, -7.6], [3, -5], [-4, -5]],
+			pts: [
+				[-4, -7.6],
+				[3, -7.6],
+				[3, -5],
+				[-4, -5]
+			],
 			edges: ['eave', 'rake', 'ridge', 'rake']
 		}
 	];
@@ -321,7 +530,12 @@ function h07Facets(): FacetDef[] {
 			...slate('G2'),
 			section: 'main',
 			name: '{Dir} slope',
-			pts: [[-a, 0], [a, 0], [a, b], [-a, b]],
+			pts: [
+				[-a, 0],
+				[a, 0],
+				[a, b],
+				[-a, b]
+			],
 			edges: ['ridge', 'rake', 'eave', 'rake']
 		}
 	];
@@ -331,13 +545,23 @@ function h07Facets(): FacetDef[] {
 			{
 				...d,
 				name: `Dormer ${i + 1} {dir} side`,
-				pts: [[c - half, -b], [c, -b], [c, v2], [c - half, v1]],
+				pts: [
+					[c - half, -b],
+					[c, -b],
+					[c, v2],
+					[c - half, v1]
+				],
 				edges: ['rake', 'ridge', 'valley', 'eave']
 			},
 			{
 				...d,
 				name: `Dormer ${i + 1} {dir} side`,
-				pts: [[c, -b], [c + half, -b], [c + half, v1], [c, v2]],
+				pts: [
+					[c, -b],
+					[c + half, -b],
+					[c + half, v1],
+					[c, v2]
+				],
 				edges: ['rake', 'eave', 'valley', 'ridge']
 			}
 		);
@@ -359,14 +583,28 @@ function h08Facets(): FacetDef[] {
 			...shake(8, 'G2'),
 			section: 'main',
 			name: '{Dir} slope',
-			pts: [[-6, b0], [6, b0], [6, ridgeV], [-6, ridgeV]],
+			pts: [
+				[-6, b0],
+				[6, b0],
+				[6, ridgeV],
+				[-6, ridgeV]
+			],
 			edges: ['eave', 'rake', 'ridge', 'rake']
 		},
 		{
-			...shake(5, 'G4', 'Under the cedar: thick moss on the lower courses, needles in the keyways.'),
+			...shake(
+				5,
+				'G4',
+				'Under the cedar: thick moss on the lower courses, needles in the keyways.'
+			),
 			section: 'main',
 			name: '{Dir} slope',
-			pts: [[-6, ridgeV], [6, ridgeV], [6, b0 + front + rear], [-6, b0 + front + rear]],
+			pts: [
+				[-6, ridgeV],
+				[6, ridgeV],
+				[6, b0 + front + rear],
+				[-6, b0 + front + rear]
+			],
 			edges: ['ridge', 'rake', 'eave', 'rake']
 		}
 	];
@@ -399,7 +637,16 @@ const HOUSES: HouseDef[] = [
 			7,
 			4.8,
 			base('asphalt_shingle', 6, 1, 3.0, WEATHERED_WOOD, 'G2'),
-			base('asphalt_shingle', 6, 1, 3.0, WEATHERED_WOOD, 'G4', 'ground', 'Moss along the lower courses under the oak.')
+			base(
+				'asphalt_shingle',
+				6,
+				1,
+				3.0,
+				WEATHERED_WOOD,
+				'G4',
+				'ground',
+				'Moss along the lower courses under the oak.'
+			)
 		)
 	},
 	{
@@ -452,7 +699,8 @@ const HOUSES: HouseDef[] = [
 		rot: 0,
 		noGutters: true,
 		roofType: 'Gable, standing seam',
-		notes: 'No gutters: runoff falls straight onto the beds along both eaves; soak the plants first.',
+		notes:
+			'No gutters: runoff falls straight onto the beds along both eaves; soak the plants first.',
 		facets: gableAlongU(
 			7.2,
 			4.2,
@@ -532,7 +780,16 @@ const HOUSES: HouseDef[] = [
 // ---------------------------------------------------------------------------------------------
 // Geometry checks and truth
 
-const COMPASS = ['north', 'north-east', 'east', 'south-east', 'south', 'south-west', 'west', 'north-west'];
+const COMPASS = [
+	'north',
+	'north-east',
+	'east',
+	'south-east',
+	'south',
+	'south-west',
+	'west',
+	'north-west'
+];
 
 function shoelace(p: Pt[]) {
 	let s = 0;
@@ -594,7 +851,8 @@ function place(h: HouseDef): Placed[] {
 		def.edges.forEach((e, i) => {
 			const j = (i + 1) % xy.length;
 			const level = Math.abs(heights[i] - heights[j]) < 1e-9;
-			if ((e === 'eave' || e === 'ridge') && !level) throw new Error(`${where}: ${e} ${i} not level`);
+			if ((e === 'eave' || e === 'ridge') && !level)
+				throw new Error(`${where}: ${e} ${i} not level`);
 			if (e === 'eave' && Math.abs(heights[i] - def.eaveHeightM) > 1e-9)
 				throw new Error(`${where}: eave ${i} off the eave line`);
 		});
@@ -754,7 +1012,10 @@ function mulberry32(seed: number) {
 function distToSeg(p: Pt, a: Pt, b: Pt) {
 	const dx = b[0] - a[0];
 	const dy = b[1] - a[1];
-	const t = Math.max(0, Math.min(1, ((p[0] - a[0]) * dx + (p[1] - a[1]) * dy) / (dx * dx + dy * dy)));
+	const t = Math.max(
+		0,
+		Math.min(1, ((p[0] - a[0]) * dx + (p[1] - a[1]) * dy) / (dx * dx + dy * dy))
+	);
 	return Math.hypot(a[0] + t * dx - p[0], a[1] + t * dy - p[1]);
 }
 function distToLine(p: Pt, pts: Pt[]) {
@@ -782,7 +1043,19 @@ function context(): Feature[] {
 	const f: Feature[] = [];
 	// Streets run well past the neighbourhood so the imagery never shows a road stopping dead.
 	const streets: [string, number, number, number, Pt[]][] = [
-		['Tidewater Lane', 9, 1.5, 1.0, [[-260, 1.5], [-120, 0.5], [0, 0], [120, -0.5], [260, -2]]],
+		[
+			'Tidewater Lane',
+			9,
+			1.5,
+			1.0,
+			[
+				[-260, 1.5],
+				[-120, 0.5],
+				[0, 0],
+				[120, -0.5],
+				[260, -2]
+			]
+		],
 		[
 			'Alder Loop',
 			7.5,
@@ -813,9 +1086,13 @@ function context(): Feature[] {
 		['h09', rect(-14, -130, 27, -99), 'fresh'],
 		['h10', rect(27, -100, 70, -60), 'dry']
 	];
-	for (const [houseId, ring, lawn] of parcels) f.push(polygon({ kind: 'parcel', houseId, lawn }, ring));
+	for (const [houseId, ring, lawn] of parcels)
+		f.push(polygon({ kind: 'parcel', houseId, lawn }, ring));
 	f.push(
-		polygon({ kind: 'lawn', name: 'Alder Loop green', lawn: 'fresh' }, rect(66.75, 7.25, 143.25, 38)),
+		polygon(
+			{ kind: 'lawn', name: 'Alder Loop green', lawn: 'fresh' },
+			rect(66.75, 7.25, 143.25, 38)
+		),
 		polygon(
 			{ kind: 'lawn', name: 'Saltmarsh Court island', lawn: 'lush' },
 			arc(COURT.x, COURT.cy, 8.2, 0, 360, 40).slice(0, -1)
@@ -828,7 +1105,12 @@ function context(): Feature[] {
 	drive('h02', 'asphalt', rect(-73.6, -28, -69.6, -3));
 	drive('h03', 'concrete', rect(-61.5, -24, -56, -3));
 	drive('h04', 'concrete', rect(43, 42.2, 58, 46.8));
-	drive('h05', 'pavers', [[113.5, 160], [113.5, 128], [117.5, 127], [117.5, 160]]);
+	drive('h05', 'pavers', [
+		[113.5, 160],
+		[113.5, 128],
+		[117.5, 127],
+		[117.5, 160]
+	]);
 	drive('h06', 'concrete', rect(58, 70, 87, 74));
 	drive('h07', 'asphalt', rect(128, 50, 152, 54));
 	drive('h08', 'concrete', rect(-24, -75, -1, -71));
@@ -870,7 +1152,17 @@ function context(): Feature[] {
 		[[110, 146.6], 0.8, 'h05']
 	];
 	shrubs.forEach(([p, radiusM, houseId], i) =>
-		f.push(point({ kind: 'shrub', shrubId: `s${String(i + 1).padStart(2, '0')}`, radiusM, ...(houseId ? { houseId } : {}) }, p))
+		f.push(
+			point(
+				{
+					kind: 'shrub',
+					shrubId: `s${String(i + 1).padStart(2, '0')}`,
+					radiusM,
+					...(houseId ? { houseId } : {})
+				},
+				p
+			)
+		)
 	);
 
 	const trees: [Pt, number, number, 'broadleaf' | 'conifer', string?][] = [
@@ -914,10 +1206,21 @@ function context(): Feature[] {
 			const r = 2.8 + rnd() * 3.4;
 			const conifer = rnd() < 0.3;
 			if (keepOut.some((ring) => distToRing(p, ring) < r + 1.5 || inRing(p, ring))) continue;
-			if (streets.some(([, w, walk, verge, pts]) => distToLine(p, pts) < w / 2 + walk + verge + r * 0.6)) continue;
+			if (
+				streets.some(
+					([, w, walk, verge, pts]) => distToLine(p, pts) < w / 2 + walk + verge + r * 0.6
+				)
+			)
+				continue;
 			if (trees.some(([q, rq]) => Math.hypot(q[0] - p[0], q[1] - p[1]) < (r + rq) * 0.8)) continue;
-			if (Math.hypot(p[0] - 105, p[1] - LOOP.cy) > LOOP.r - 7 - r && area === scatter[4][0]) continue;
-			trees.push([p, Math.round(r * 10) / 10, Math.round((r * 2.1 + 2 + rnd() * 4) * 10) / 10, conifer ? 'conifer' : 'broadleaf']);
+			if (Math.hypot(p[0] - 105, p[1] - LOOP.cy) > LOOP.r - 7 - r && area === scatter[4][0])
+				continue;
+			trees.push([
+				p,
+				Math.round(r * 10) / 10,
+				Math.round((r * 2.1 + 2 + rnd() * 4) * 10) / 10,
+				conifer ? 'conifer' : 'broadleaf'
+			]);
 			placed++;
 		}
 	}

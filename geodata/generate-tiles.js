@@ -141,7 +141,8 @@ function noiseTable(seed, octaves) {
 	const hist = new Float64Array(BINS + 1);
 	const lo = -1;
 	const hi = 1;
-	const bin = (/** @type {number} */ v) => Math.min(BINS - 1, Math.max(0, Math.floor(((v - lo) / (hi - lo)) * BINS)));
+	const bin = (/** @type {number} */ v) =>
+		Math.min(BINS - 1, Math.max(0, Math.floor(((v - lo) / (hi - lo)) * BINS)));
 	for (let k = 0; k < t.length; k++) hist[bin(t[k]) + 1]++;
 	for (let k = 1; k <= BINS; k++) hist[k] += hist[k - 1];
 	for (let k = 0; k < t.length; k++) {
@@ -381,7 +382,8 @@ export function prepareScene(scene) {
 	const mToMerc = (p) => merc(lon0 + p[0] / kx, lat0 + p[1] / ky);
 	/** @param {number[][]} ring closed GeoJSON ring @returns {P2[]} */
 	const openM = (ring) => ring.slice(0, -1).map(toM);
-	const of = (/** @type {string} */ kind) => scene.features.filter((f) => f.properties.kind === kind);
+	const of = (/** @type {string} */ kind) =>
+		scene.features.filter((f) => f.properties.kind === kind);
 
 	const houseProps = new Map(of('house').map((h) => [h.properties.houseId, h.properties]));
 
@@ -420,7 +422,9 @@ export function prepareScene(scene) {
 			section: /** @type {string} */ (p.section),
 			ll: /** @type {number[][]} */ (f.geometry.coordinates[0]),
 			ring,
-			merc: f.geometry.coordinates[0].slice(0, -1).map((/** @type {number[]} */ c) => merc(c[0], c[1])),
+			merc: f.geometry.coordinates[0]
+				.slice(0, -1)
+				.map((/** @type {number[]} */ c) => merc(c[0], c[1])),
 			box: boxOf(ring),
 			edges,
 			material: Math.max(0, MATERIALS.indexOf(p.material)),
@@ -499,7 +503,14 @@ export function prepareScene(scene) {
 			segs.push({ ...s, s0, len, box: boxOf([pts[i], pts[i + 1]], reach + 0.5) });
 			s0 += len;
 		}
-		return { hw, verge: p.vergeM ?? 0, walk: p.sidewalkM ?? 0, reach, segs, box: boxOf(pts, reach + 0.5) };
+		return {
+			hw,
+			verge: p.vergeM ?? 0,
+			walk: p.sidewalkM ?? 0,
+			reach,
+			segs,
+			box: boxOf(pts, reach + 0.5)
+		};
 	});
 
 	const area = (/** @type {Feature} */ f, /** @type {number} */ k) => {
@@ -507,7 +518,9 @@ export function prepareScene(scene) {
 		const rnd = mulberry32(seedOf(String(f.properties.houseId ?? f.properties.name ?? k)));
 		return {
 			ring,
-			merc: f.geometry.coordinates[0].slice(0, -1).map((/** @type {number[]} */ c) => merc(c[0], c[1])),
+			merc: f.geometry.coordinates[0]
+				.slice(0, -1)
+				.map((/** @type {number[]} */ c) => merc(c[0], c[1])),
 			box: boxOf(ring),
 			props: f.properties,
 			rnd: (() => {
@@ -557,7 +570,12 @@ export function prepareScene(scene) {
 		for (let i = 0; i < pts.length - 1; i++) {
 			segs.push(seg(pts[i], pts[i + 1]));
 			/** @type {P2[]} */
-			const q = [pts[i], pts[i + 1], [pts[i + 1][0] + h * SHADOW_DIR[0], pts[i + 1][1] + h * SHADOW_DIR[1]], [pts[i][0] + h * SHADOW_DIR[0], pts[i][1] + h * SHADOW_DIR[1]]];
+			const q = [
+				pts[i],
+				pts[i + 1],
+				[pts[i + 1][0] + h * SHADOW_DIR[0], pts[i + 1][1] + h * SHADOW_DIR[1]],
+				[pts[i][0] + h * SHADOW_DIR[0], pts[i][1] + h * SHADOW_DIR[1]]
+			];
 			shadow.push(signedArea(q) < 0 ? q.reverse() : q);
 		}
 		return {
@@ -586,7 +604,13 @@ export function prepareScene(scene) {
 				tint: [rnd() - 0.5, rnd() - 0.5],
 				sx: X + crownMid * SHADOW_DIR[0],
 				sy: Y + crownMid * SHADOW_DIR[1],
-				box: boxOf([[X, Y], [X + h * SHADOW_DIR[0], Y + h * SHADOW_DIR[1]]], r * 1.6 + 0.5)
+				box: boxOf(
+					[
+						[X, Y],
+						[X + h * SHADOW_DIR[0], Y + h * SHADOW_DIR[1]]
+					],
+					r * 1.6 + 0.5
+				)
 			};
 		});
 
@@ -749,7 +773,12 @@ export function renderTile(z, x, y, scene = sceneForDefault()) {
 	}
 	const mpp = Math.abs(X[1] - X[0]);
 	const hp = mpp / 2;
-	const tileBox = { minX: X[0] - mpp, maxX: X[N - 1] + mpp, minY: Y[N - 1] - mpp, maxY: Y[0] + mpp };
+	const tileBox = {
+		minX: X[0] - mpp,
+		maxX: X[N - 1] + mpp,
+		minY: Y[N - 1] - mpp,
+		maxY: Y[0] + mpp
+	};
 	const gx0 = x * N;
 	const gy0 = y * N;
 	const img = IMG;
@@ -1167,7 +1196,9 @@ export function renderTile(z, x, y, scene = sceneForDefault()) {
 					}
 				const q = Math.min(1, Math.sqrt(best));
 				const gap = smoothstep(0.6, 1, q) * lc;
-				const edge = t.r * (1 + 0.12 * (vnoise(X[i] / (t.r * 0.5), Y[j] / (t.r * 0.5), t.seed) - 0.5)) - gap * lump * br * 0.5;
+				const edge =
+					t.r * (1 + 0.12 * (vnoise(X[i] / (t.r * 0.5), Y[j] / (t.r * 0.5), t.seed) - 0.5)) -
+					gap * lump * br * 0.5;
 				const c = Math.min(1, Math.max(0, (edge - d) / mpp + 0.5));
 				if (c <= 0) continue;
 				const rr2 = Math.min(1, d / t.r);
@@ -1176,7 +1207,8 @@ export function renderTile(z, x, y, scene = sceneForDefault()) {
 				const nx = (dx / t.r) * 0.55 + bx * 0.45 * lc;
 				const ny = (dy / t.r) * 0.55 + by * 0.45 * lc;
 				const nz = dn * 0.55 + cz * 0.45 * lc + 0.45 * (1 - lc);
-				const nl = (nx * SUN_L[0] + ny * SUN_L[1] + nz * SUN_L[2]) / Math.sqrt(nx * nx + ny * ny + nz * nz);
+				const nl =
+					(nx * SUN_L[0] + ny * SUN_L[1] + nz * SUN_L[2]) / Math.sqrt(nx * nx + ny * ny + nz * nz);
 				const lf = vnoise(X[i] / leaf, Y[j] / leaf, t.seed + 2);
 				const leafy = 1 + (lf - 0.5) * 0.45 * ll - 0.25 * ll * smoothstep(0.8, 1, 1 - lf);
 				let v = (0.28 + 0.85 * Math.max(0, nl)) * (1 - 0.45 * gap) * leafy;
@@ -1221,6 +1253,7 @@ function blend(img, o, c) {
 function groundNoise(X, Y, mpp) {
 	return {
 		big: gridNoise(X, Y, 14, 11, mpp, NOISE2),
+		field: gridNoise(X, Y, 40, 17, mpp),
 		mid: gridNoise(X, Y, 1.3, 13, mpp),
 		fine: gridNoise(X, Y, 0.32, 14, mpp, NOISE2),
 		bare: gridNoise(X, Y, 3.2, 16, mpp)
@@ -1258,7 +1291,7 @@ function ground(G, i, j, X, Y, mpp, lawn) {
 		g *= k * stripe;
 		b *= k * stripe;
 	} else {
-		const dry = smoothstep(0.2, 1, big) * 0.8;
+		const dry = smoothstep(0.25, 0.85, 0.5 * big + 0.5 * gn(G.field, i, j)) * 0.7;
 		const bare = smoothstep(0.88, 1, gn(G.bare, i, j)) * 0.35;
 		r = 0.34 + 0.1 * dry + 0.08 * bare;
 		g = 0.38 + 0.035 * dry - 0.01 * bare;
@@ -1299,7 +1332,8 @@ function asphalt(X, Y, sd, d, hw, mpp, gx, gy) {
 	const grain = 1 + 0.08 * (hash2(gx, gy, 4) - 0.5);
 	// Tyres polish two darker paths in each lane; drips darken the lane centre.
 	const lane = Math.abs(d - hw / 2);
-	const wear = 1 - 0.06 * smoothstep(0.9, 0.3, Math.abs(lane - 0.8)) - 0.05 * smoothstep(0.5, 0, lane);
+	const wear =
+		1 - 0.06 * smoothstep(0.9, 0.3, Math.abs(lane - 0.8)) - 0.05 * smoothstep(0.5, 0, lane);
 	const v = (0.88 + 0.14 * patch + 0.08 * (n - 0.5)) * grain * wear;
 	setC(0.36 * v, 0.36 * v, 0.375 * v);
 }
@@ -1346,8 +1380,12 @@ function driveway(dw, X, Y, mpp, gx, gy) {
 function deck(X, Y, mpp, gx, gy) {
 	const fx = X / 0.6 - Math.floor(X / 0.6);
 	const fy = Y / 0.6 - Math.floor(Y / 0.6);
-	const joint = Math.max(band(Math.min(fx, 1 - fx) * 0.6, 0, 0.01, mpp / 2), band(Math.min(fy, 1 - fy) * 0.6, 0, 0.01, mpp / 2));
-	const tone = 1 + 0.06 * (hash2(Math.floor(X / 0.6), Math.floor(Y / 0.6), 41) - 0.5) * lod(0.6, mpp);
+	const joint = Math.max(
+		band(Math.min(fx, 1 - fx) * 0.6, 0, 0.01, mpp / 2),
+		band(Math.min(fy, 1 - fy) * 0.6, 0, 0.01, mpp / 2)
+	);
+	const tone =
+		1 + 0.06 * (hash2(Math.floor(X / 0.6), Math.floor(Y / 0.6), 41) - 0.5) * lod(0.6, mpp);
 	const v = (1 - 0.2 * joint) * tone * (1 + 0.04 * (hash2(gx, gy, 8) - 0.5));
 	setC(0.82 * v, 0.78 * v, 0.7 * v);
 }
@@ -1561,7 +1599,8 @@ function facetColour(f, X, Y, mpp, gx, gy) {
 		const shadeK = Math.min(1.4, Math.max(0.75, 1 + 0.8 * (0.6 - f.nDotL)));
 		const runS = f.runMax * f.mult;
 		const lowness = Math.min(1, Math.max(0, 1 - ts / runS));
-		const ns = vnoise(s / 0.4, ts / 4.5, seed + 11) * 0.65 + vnoise(s / 0.14, ts / 1.6, seed + 12) * 0.35;
+		const ns =
+			vnoise(s / 0.4, ts / 4.5, seed + 11) * 0.65 + vnoise(s / 0.14, ts / 1.6, seed + 12) * 0.35;
 		const thr = 0.8 - 0.1 * G;
 		// Each streak starts somewhere of its own up the slope and fades in below that point.
 		const start = vnoise(s / 0.9, 0.5, seed + 21) * runS * 0.85;
@@ -1572,7 +1611,8 @@ function facetColour(f, X, Y, mpp, gx, gy) {
 		dark = Math.min(0.85, (streak * (0.14 + 0.13 * G) + grime) * shadeK);
 		if (G >= 3) {
 			// Moss sits in cushions along the lower courses, where water lingers longest.
-			const mn = vnoise(X / 1.1, Y / 1.1, seed + 14) * 0.6 + vnoise(X / 0.42, Y / 0.42, seed + 15) * 0.4;
+			const mn =
+				vnoise(X / 1.1, Y / 1.1, seed + 14) * 0.6 + vnoise(X / 0.42, Y / 0.42, seed + 15) * 0.4;
 			const mthr = (G === 4 ? 0.6 : 0.74) + (0.22 * (1 - lowness)) / shadeK;
 			moss = smoothstep(mthr, mthr + 0.12, mn) * 0.9;
 			const cx = Math.floor(X / 0.35);
@@ -1699,7 +1739,8 @@ export function tileJson(S = sceneForDefault()) {
 
 /** What the stamp file records: a rebuild happens when any of it changes. */
 export function stampOf() {
-	const sha = (/** @type {string} */ p) => createHash('sha256').update(readFileSync(p)).digest('hex');
+	const sha = (/** @type {string} */ p) =>
+		createHash('sha256').update(readFileSync(p)).digest('hex');
 	return {
 		generatorVersion: GENERATOR_VERSION,
 		generatorHash: sha(fileURLToPath(import.meta.url)),
@@ -1748,7 +1789,9 @@ export async function generateTiles(opts = {}) {
 	if (!opts.force) {
 		const current = currentStamp(dir);
 		if (current) {
-			log(`tiles up to date (${current.tiles} tiles in ${path.relative(process.cwd(), dir) || dir}); --force rebuilds`);
+			log(
+				`tiles up to date (${current.tiles} tiles in ${path.relative(process.cwd(), dir) || dir}); --force rebuilds`
+			);
 			return { skipped: true, tiles: current.tiles, seconds: 0 };
 		}
 	}
@@ -1765,10 +1808,15 @@ export async function generateTiles(opts = {}) {
 			Array.from({ length: threads }, (_, k) => {
 				const part = tiles.filter((_t, i) => i % threads === k);
 				return new Promise((resolve, reject) => {
-					const w = new Worker(fileURLToPath(import.meta.url), { workerData: { tiles: part, dir } });
+					const w = new Worker(fileURLToPath(import.meta.url), {
+						workerData: { tiles: part, dir }
+					});
 					w.once('message', resolve);
 					w.once('error', reject);
-					w.once('exit', (code) => code !== 0 && reject(new Error(`tile worker exited with ${code}`)));
+					w.once(
+						'exit',
+						(code) => code !== 0 && reject(new Error(`tile worker exited with ${code}`))
+					);
 				});
 			})
 		);
@@ -1785,7 +1833,11 @@ export async function generateTiles(opts = {}) {
 if (!isMainThread && workerData?.tiles) {
 	renderAll(workerData.tiles, workerData.dir);
 	parentPort?.postMessage('done');
-} else if (isMainThread && process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
+} else if (
+	isMainThread &&
+	process.argv[1] &&
+	import.meta.url === pathToFileURL(process.argv[1]).href
+) {
 	generateTiles({ force: process.argv.includes('--force') }).catch((e) => {
 		console.error(e);
 		process.exit(1);

@@ -8,12 +8,7 @@ import { fileURLToPath } from 'node:url';
 
 export type Edge = 'eave' | 'rake' | 'ridge' | 'hip' | 'valley';
 export type Material =
-	| 'asphalt_shingle'
-	| 'clay_tile'
-	| 'concrete_tile'
-	| 'metal'
-	| 'slate'
-	| 'wood_shake';
+	'asphalt_shingle' | 'clay_tile' | 'concrete_tile' | 'metal' | 'slate' | 'wood_shake';
 export type Growth = 'G0' | 'G1' | 'G2' | 'G3' | 'G4';
 export type Access = 'ground' | 'ladder' | 'roof' | 'lift';
 export type Section = 'main' | 'wing' | 'garage' | 'porch' | 'dormer';

@@ -62,7 +62,9 @@ function shoelace(p: Position[]) {
 
 const scene = loadScene();
 const facets = featuresOf('facet');
-const byHouse = houses().map((h) => [h.properties.houseId, facetsOf(h.properties.houseId)] as const);
+const byHouse = houses().map(
+	(h) => [h.properties.houseId, facetsOf(h.properties.houseId)] as const
+);
 const EDGE_NAMES = ['eave', 'rake', 'ridge', 'hip', 'valley'];
 
 function toLocal(f: FacetFeature) {
@@ -95,7 +97,11 @@ describe('scene file', () => {
 			if (f.properties.kind === 'street') continue;
 			const g = f.geometry;
 			const pts =
-				g.type === 'Point' ? [g.coordinates] : g.type === 'LineString' ? g.coordinates : g.coordinates[0];
+				g.type === 'Point'
+					? [g.coordinates]
+					: g.type === 'LineString'
+						? g.coordinates
+						: g.coordinates[0];
 			for (const [lon, lat] of pts) {
 				expect(lon).toBeGreaterThanOrEqual(w);
 				expect(lon).toBeLessThanOrEqual(e);
@@ -175,7 +181,12 @@ describe('facets of one house', () => {
 		expect(fs.length).toBeGreaterThan(0);
 		for (let i = 0; i < fs.length; i++)
 			for (let j = i + 1; j < fs.length; j++) {
-				const x = intersect(featureCollection([polygon(fs[i].geometry.coordinates), polygon(fs[j].geometry.coordinates)]));
+				const x = intersect(
+					featureCollection([
+						polygon(fs[i].geometry.coordinates),
+						polygon(fs[j].geometry.coordinates)
+					])
+				);
 				expect(x ? turfArea(x) : 0).toBeLessThan(0.01);
 			}
 	});
@@ -198,7 +209,9 @@ describe('facets of one house', () => {
 						// Within a centimetre of B's edge: it must be one of B's corners, exactly.
 						const coordsA = fs[fa].geometry.coordinates[0];
 						const coordsB = fs[fb].geometry.coordinates[0];
-						const same = coordsB.some((c) => c[0] === coordsA[A.indexOf(v)][0] && c[1] === coordsA[A.indexOf(v)][1]);
+						const same = coordsB.some(
+							(c) => c[0] === coordsA[A.indexOf(v)][0] && c[1] === coordsA[A.indexOf(v)][1]
+						);
 						expect(same).toBe(true);
 					}
 				}
@@ -207,34 +220,37 @@ describe('facets of one house', () => {
 		expect(checked).toBeGreaterThan(0);
 	});
 
-	it.each(byHouse)('%s: every hip and valley (and all but free ridges) is shared, at one height', (_, fs) => {
-		const segKey = (a: Position, b: Position) => [a.join(','), b.join(',')].sort().join('|');
-		const seen = new Map<string, { f: FacetFeature; i: number }[]>();
-		for (const f of fs) {
-			const ring = f.geometry.coordinates[0];
-			f.properties.edges.forEach((_e, i) => {
-				const k = segKey(ring[i], ring[i + 1]);
-				seen.set(k, [...(seen.get(k) ?? []), { f, i }]);
-			});
+	it.each(byHouse)(
+		'%s: every hip and valley (and all but free ridges) is shared, at one height',
+		(_, fs) => {
+			const segKey = (a: Position, b: Position) => [a.join(','), b.join(',')].sort().join('|');
+			const seen = new Map<string, { f: FacetFeature; i: number }[]>();
+			for (const f of fs) {
+				const ring = f.geometry.coordinates[0];
+				f.properties.edges.forEach((_e, i) => {
+					const k = segKey(ring[i], ring[i + 1]);
+					seen.set(k, [...(seen.get(k) ?? []), { f, i }]);
+				});
+			}
+			for (const f of fs) {
+				const ring = f.geometry.coordinates[0];
+				f.properties.edges.forEach((e, i) => {
+					if (e !== 'hip' && e !== 'valley' && e !== 'ridge') return;
+					const others = seen.get(segKey(ring[i], ring[i + 1]))!.filter((o) => o.f !== f);
+					// A porch's high edge runs along a wall, with nothing of the same roof above it.
+					if (e === 'ridge' && f.properties.section === 'porch') {
+						expect(others.every((o) => o.f.properties.edges[o.i] === 'eave')).toBe(true);
+						return;
+					}
+					expect(others).toHaveLength(1);
+					const o = others[0];
+					expect(o.f.properties.edges[o.i]).toBe(e);
+					const A = toLocal(f);
+					for (const p of [A[i], A[i + 1]]) expect(heightOn(o.f, p)).toBeCloseTo(heightOn(f, p), 3);
+				});
+			}
 		}
-		for (const f of fs) {
-			const ring = f.geometry.coordinates[0];
-			f.properties.edges.forEach((e, i) => {
-				if (e !== 'hip' && e !== 'valley' && e !== 'ridge') return;
-				const others = seen.get(segKey(ring[i], ring[i + 1]))!.filter((o) => o.f !== f);
-				// A porch's high edge runs along a wall, with nothing of the same roof above it.
-				if (e === 'ridge' && f.properties.section === 'porch') {
-					expect(others.every((o) => o.f.properties.edges[o.i] === 'eave')).toBe(true);
-					return;
-				}
-				expect(others).toHaveLength(1);
-				const o = others[0];
-				expect(o.f.properties.edges[o.i]).toBe(e);
-				const A = toLocal(f);
-				for (const p of [A[i], A[i + 1]]) expect(heightOn(o.f, p)).toBeCloseTo(heightOn(f, p), 3);
-			});
-		}
-	});
+	);
 });
 
 describe('stored truth', () => {
@@ -252,7 +268,10 @@ describe('stored truth', () => {
 			// scale; a spherical area (turf) carries a latitude bias of ~0.1 % here, under 0.6 %.
 			const [lon0, lat0] = ring
 				.slice(0, -1)
-				.reduce((s, c) => [s[0] + c[0] / (ring.length - 1), s[1] + c[1] / (ring.length - 1)], [0, 0]);
+				.reduce(
+					(s, c) => [s[0] + c[0] / (ring.length - 1), s[1] + c[1] / (ring.length - 1)],
+					[0, 0]
+				);
 			const plane = ring.map(localPlane(lat0, lon0));
 			// GeographicLib sums per-edge areas measured from the equator, so its own roundoff is
 			// a few 1e-5 m² whatever the size: that floor matters only for the small dormer facets.
@@ -286,21 +305,28 @@ describe('stored truth', () => {
 			const ring = f.geometry.coordinates[0];
 			let m = 0;
 			f.properties.edges.forEach((e, i) => {
-				if (e === 'eave') m += geod.Inverse(ring[i][1], ring[i][0], ring[i + 1][1], ring[i + 1][0]).s12 ?? NaN;
+				if (e === 'eave')
+					m += geod.Inverse(ring[i][1], ring[i][0], ring[i + 1][1], ring[i + 1][0]).s12 ?? NaN;
 			});
 			expect(f.properties.eaveLengthFt * 0.3048).toBeCloseTo(m, 5);
 		}
 	);
 
-	it.each(houses().map((h) => [h.properties.houseId, h] as const))('%s: totals are the facet sums', (_, h) => {
-		const fs = facetsOf(h.properties.houseId);
-		const sum = (k: 'planAreaFt2' | 'slopedAreaFt2' | 'eaveLengthFt') => fs.reduce((s, f) => s + f.properties[k], 0);
-		expect(h.properties.planAreaFt2).toBeCloseTo(sum('planAreaFt2'), 4);
-		expect(h.properties.slopedAreaFt2).toBeCloseTo(sum('slopedAreaFt2'), 4);
-		expect(h.properties.eaveLengthFt).toBeCloseTo(sum('eaveLengthFt'), 4);
-		expect(h.properties.squares).toBeCloseTo(h.properties.slopedAreaFt2 / 100, 5);
-		expect(new Set(h.properties.materials)).toEqual(new Set(fs.map((f) => f.properties.material)));
-	});
+	it.each(houses().map((h) => [h.properties.houseId, h] as const))(
+		'%s: totals are the facet sums',
+		(_, h) => {
+			const fs = facetsOf(h.properties.houseId);
+			const sum = (k: 'planAreaFt2' | 'slopedAreaFt2' | 'eaveLengthFt') =>
+				fs.reduce((s, f) => s + f.properties[k], 0);
+			expect(h.properties.planAreaFt2).toBeCloseTo(sum('planAreaFt2'), 4);
+			expect(h.properties.slopedAreaFt2).toBeCloseTo(sum('slopedAreaFt2'), 4);
+			expect(h.properties.eaveLengthFt).toBeCloseTo(sum('eaveLengthFt'), 4);
+			expect(h.properties.squares).toBeCloseTo(h.properties.slopedAreaFt2 / 100, 5);
+			expect(new Set(h.properties.materials)).toEqual(
+				new Set(fs.map((f) => f.properties.material))
+			);
+		}
+	);
 
 	it('matches the houses table in geodata/README.md', () => {
 		const readme = readFileSync(new URL('../../../geodata/README.md', import.meta.url), 'utf8');
@@ -319,13 +345,22 @@ describe('variety the imagery and the tests rely on', () => {
 
 	it('has every material', () => {
 		const mats = new Set(all.map((p) => p.material));
-		for (const m of ['asphalt_shingle', 'clay_tile', 'concrete_tile', 'metal', 'slate', 'wood_shake'])
+		for (const m of [
+			'asphalt_shingle',
+			'clay_tile',
+			'concrete_tile',
+			'metal',
+			'slate',
+			'wood_shake'
+		])
 			expect(mats.has(m as never)).toBe(true);
 	});
 
 	it('has every growth grade and every access grade', () => {
 		expect(new Set(all.map((p) => p.growth))).toEqual(new Set(['G0', 'G1', 'G2', 'G3', 'G4']));
-		expect(new Set(all.map((p) => p.access))).toEqual(new Set(['ground', 'ladder', 'roof', 'lift']));
+		expect(new Set(all.map((p) => p.access))).toEqual(
+			new Set(['ground', 'ladder', 'roof', 'lift'])
+		);
 	});
 
 	it('has a clay tile hip roof with an addition in a different shade, joined by valleys', () => {
@@ -346,7 +381,9 @@ describe('variety the imagery and the tests rely on', () => {
 
 	it('has a 2/12 porch roof, a metal roof, slate, wood shake and concrete tile', () => {
 		expect(all.some((p) => p.section === 'porch' && p.pitch === 2)).toBe(true);
-		expect(all.filter((p) => p.material === 'metal' && p.section === 'main').length).toBeGreaterThan(0);
+		expect(
+			all.filter((p) => p.material === 'metal' && p.section === 'main').length
+		).toBeGreaterThan(0);
 		for (const m of ['slate', 'wood_shake', 'concrete_tile'] as const)
 			expect(all.some((p) => p.material === m)).toBe(true);
 	});
@@ -354,8 +391,12 @@ describe('variety the imagery and the tests rely on', () => {
 	it('has an L-shaped cross-gable with valleys and hip roofs with 45° hips', () => {
 		const cross = byHouse.find(([, fs]) => fs.some((f) => f.properties.section === 'wing'));
 		expect(cross).toBeDefined();
-		expect(cross![1].filter((f) => f.properties.edges.includes('valley')).length).toBeGreaterThanOrEqual(3);
-		expect(all.filter((p) => p.edges.filter((e) => e === 'hip').length >= 2).length).toBeGreaterThan(8);
+		expect(
+			cross![1].filter((f) => f.properties.edges.includes('valley')).length
+		).toBeGreaterThanOrEqual(3);
+		expect(
+			all.filter((p) => p.edges.filter((e) => e === 'hip').length >= 2).length
+		).toBeGreaterThan(8);
 	});
 
 	it('has dormers cut out of a main slope, joined to it by valleys', () => {
@@ -385,7 +426,8 @@ describe('variety the imagery and the tests rely on', () => {
 			const mid = point([(ring[i][0] + ring[i + 1][0]) / 2, (ring[i][1] + ring[i + 1][1]) / 2]);
 			const eave = lineString([ring[i], ring[i + 1]]);
 			const nearFence = fences.some(
-				(fe) => pointToLineDistance(mid, lineString(fe.geometry.coordinates), { units: 'meters' }) < 2.5
+				(fe) =>
+					pointToLineDistance(mid, lineString(fe.geometry.coordinates), { units: 'meters' }) < 2.5
 			);
 			const nearShrub = shrubs.some(
 				(s) => pointToLineDistance(point(s.geometry.coordinates), eave, { units: 'meters' }) < 2
@@ -399,7 +441,9 @@ describe('variety the imagery and the tests rely on', () => {
 		expect(houses().filter((h) => h.properties.noGutters)).toHaveLength(1);
 		const pools = featuresOf('pool');
 		expect(pools.length).toBeGreaterThan(0);
-		const parcel = featuresOf('parcel').find((p) => p.properties.houseId === pools[0].properties.houseId)!;
+		const parcel = featuresOf('parcel').find(
+			(p) => p.properties.houseId === pools[0].properties.houseId
+		)!;
 		for (const c of pools[0].geometry.coordinates[0])
 			expect(booleanPointInPolygon(point(c), polygon(parcel.geometry.coordinates))).toBe(true);
 	});
@@ -408,7 +452,10 @@ describe('variety the imagery and the tests rely on', () => {
 		const over = featuresOf('tree').filter((t) => t.properties.overhangs);
 		expect(over.length).toBeGreaterThanOrEqual(2);
 		for (const t of over) {
-			const crown = circle(t.geometry.coordinates, t.properties.crownRadiusM, { units: 'meters', steps: 64 });
+			const crown = circle(t.geometry.coordinates, t.properties.crownRadiusM, {
+				units: 'meters',
+				steps: 64
+			});
 			const covered = facetsOf(t.properties.overhangs!).reduce((s, f) => {
 				const x = intersect(featureCollection([crown, polygon(f.geometry.coordinates)]));
 				return s + (x ? turfArea(x) : 0);

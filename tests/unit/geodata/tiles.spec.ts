@@ -1,7 +1,13 @@
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
-import { booleanPointInPolygon, point, pointToLineDistance, polygonToLine, polygon } from '@turf/turf';
+import {
+	booleanPointInPolygon,
+	point,
+	pointToLineDistance,
+	polygonToLine,
+	polygon
+} from '@turf/turf';
 import { afterAll, describe, expect, it } from 'vitest';
 import {
 	currentStamp,
@@ -30,7 +36,8 @@ function tileOf(lon: number, lat: number, z: number) {
 function pixelCentre(z: number, x: number, y: number, i: number, j: number): [number, number] {
 	const n = 2 ** z;
 	const lon = ((x + (i + 0.5) / 256) / n) * 360 - 180;
-	const lat = (Math.atan(Math.sinh(Math.PI * (1 - (2 * (y + (j + 0.5) / 256)) / n))) * 180) / Math.PI;
+	const lat =
+		(Math.atan(Math.sinh(Math.PI * (1 - (2 * (y + (j + 0.5) / 256)) / n))) * 180) / Math.PI;
 	return [lon, lat];
 }
 
@@ -57,32 +64,50 @@ function clearOfTrees([lon, lat]: [number, number]) {
 	});
 }
 
-/** Mean Rec. 709 luminance of the tile's pixels that lie well inside the facet, clear of trees. */
+const masks = new Map<string, Int32Array>();
+
+/** Pixel offsets of a tile that lie well inside the facet, off its edges and clear of trees. */
+function facetMask(f: FacetFeature, z: number, x: number, y: number) {
+	const key = `${f.properties.facetId}/${z}/${x}/${y}`;
+	const hit = masks.get(key);
+	if (hit) return hit;
+	const ring = f.geometry.coordinates[0];
+	const poly = polygon(f.geometry.coordinates);
+	const outline = polygonToLine(poly);
+	const lons = ring.map((c) => c[0]);
+	const lats = ring.map((c) => c[1]);
+	const out: number[] = [];
+	for (let j = 0; j < 256; j++)
+		for (let i = 0; i < 256; i++) {
+			const p = pixelCentre(z, x, y, i, j);
+			if (p[0] < Math.min(...lons) || p[0] > Math.max(...lons)) continue;
+			if (p[1] < Math.min(...lats) || p[1] > Math.max(...lats)) continue;
+			if (!booleanPointInPolygon(point(p), poly)) continue;
+			// Keep off the edges, where gutters, caps and rakes are drawn.
+			if (pointToLineDistance(point(p), outline as never, { units: 'meters' }) < 0.5) continue;
+			if (!clearOfTrees(p)) continue;
+			out.push((j * 256 + i) * 4);
+		}
+	const mask = Int32Array.from(out);
+	masks.set(key, mask);
+	return mask;
+}
+
+/** Mean Rec. 709 luminance of the facet's pixels in the tile over its centroid. */
 function facetLuminance(f: FacetFeature, z: number, pixels?: Uint8ClampedArray) {
 	const ring = f.geometry.coordinates[0];
 	const c = ring.slice(0, -1).reduce((s, p) => [s[0] + p[0], s[1] + p[1]], [0, 0]);
 	const n = ring.length - 1;
 	const { x, y } = tileOf(c[0] / n, c[1] / n, z);
 	const data = pixels ?? renderTile(z, x, y).data;
-	const poly = polygon(f.geometry.coordinates);
-	const outline = polygonToLine(poly);
+	const mask = facetMask(f, z, x, y);
 	let sum = 0;
-	let count = 0;
-	for (let j = 0; j < 256; j++)
-		for (let i = 0; i < 256; i++) {
-			const p = pixelCentre(z, x, y, i, j);
-			if (!booleanPointInPolygon(point(p), poly)) continue;
-			// Keep off the edges, where gutters, caps and rakes are drawn.
-			if (pointToLineDistance(point(p), outline as never, { units: 'meters' }) < 0.5) continue;
-			if (!clearOfTrees(p)) continue;
-			const k = (j * 256 + i) * 4;
-			sum += 0.2126 * data[k] + 0.7152 * data[k + 1] + 0.0722 * data[k + 2];
-			count++;
-		}
-	return { mean: sum / count, count, tile: { x, y } };
+	for (const k of mask) sum += 0.2126 * data[k] + 0.7152 * data[k + 1] + 0.0722 * data[k + 2];
+	return { mean: sum / mask.length, count: mask.length, tile: { x, y } };
 }
 
-describe('tile renderer', () => {
+// Rendering a tile and masking it costs a second or two on a busy machine.
+describe('tile renderer', { timeout: 30_000 }, () => {
 	it('draws a G4 facet measurably darker than a G0 facet of the same material and aspect', () => {
 		const g4 = facet('h01-f2');
 		const g0 = facet('h02-f2');
@@ -91,7 +116,9 @@ describe('tile renderer', () => {
 		expect(g4.properties.material).toBe(g0.properties.material);
 		expect(g4.properties.shade).toBe(g0.properties.shade);
 		expect(g4.properties.pitch).toBe(g0.properties.pitch);
-		expect(Math.abs(g4.properties.downslopeAzimuthDeg - g0.properties.downslopeAzimuthDeg)).toBeLessThan(5);
+		expect(
+			Math.abs(g4.properties.downslopeAzimuthDeg - g0.properties.downslopeAzimuthDeg)
+		).toBeLessThan(5);
 		const dark = facetLuminance(g4, 20);
 		const clean = facetLuminance(g0, 20);
 		expect(dark.count).toBeGreaterThan(500);
@@ -124,7 +151,11 @@ describe('tile renderer', () => {
 	});
 
 	it('is deterministic: the same tile twice is byte-identical, whatever was drawn between', () => {
-		const { x, y } = tileOf(facet('h04-f1').geometry.coordinates[0][0][0], facet('h04-f1').geometry.coordinates[0][0][1], 20);
+		const { x, y } = tileOf(
+			facet('h04-f1').geometry.coordinates[0][0][0],
+			facet('h04-f1').geometry.coordinates[0][0][1],
+			20
+		);
 		const a = renderTile(20, x, y);
 		renderTile(20, x + 1, y);
 		renderTile(17, x >> 3, y >> 3);
@@ -149,7 +180,8 @@ describe('tile renderer', () => {
 		expect(opaque).toBe(256 * 256);
 		// A roof is not green: somewhere in the tile red and blue come close to green.
 		let roofish = 0;
-		for (let k = 0; k < img.length; k += 4) if (img[k + 1] - Math.max(img[k], img[k + 2]) < 8) roofish++;
+		for (let k = 0; k < img.length; k += 4)
+			if (img[k + 1] - Math.max(img[k], img[k + 2]) < 8) roofish++;
 		expect(roofish).toBeGreaterThan(2000);
 	});
 });
@@ -197,7 +229,10 @@ describe('tile set', () => {
 		expect(r).toMatchObject({ skipped: true, tiles: 7 });
 		expect(logs.join()).toMatch(/up to date/);
 		for (const stale of [{ sceneHash: 'x' }, { generatorHash: 'x' }, { generatorVersion: '0' }]) {
-			writeFileSync(path.join(dir, '.stamp.json'), JSON.stringify({ ...stampOf(), ...stale, tiles: 7 }));
+			writeFileSync(
+				path.join(dir, '.stamp.json'),
+				JSON.stringify({ ...stampOf(), ...stale, tiles: 7 })
+			);
 			expect(currentStamp(dir)).toBeNull();
 		}
 		rmSync(path.join(dir, 'tiles.json'));
