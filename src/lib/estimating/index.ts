@@ -1,13 +1,13 @@
-import { accessRefusal, ladderPlacements, materialName, OSHA_STEEP_ROOF_RISE } from './access';
-import { buildBatches, facetMixGal, waterForSite } from './chemistry';
+import { accessRefusal, materialName, OSHA_STEEP_ROOF_RISE } from './access';
+import { buildBatches, waterForSite } from './chemistry';
 import { EstimateInputError, type EstimateIssue } from './errors';
-import { eaveLength, measureFacetPlan, type FacetPlan } from './geometry';
-import { applyTestSpot, EXPECTATIONS, suggestStrength } from './growth';
-import { applicationHours, jobLabour, ladderHours } from './labour';
+import { facetFigures, storyRate, type FacetFigures } from './facet';
+import { measureFacetPlan, type FacetPlan } from './geometry';
+import { EXPECTATIONS } from './growth';
+import { jobLabour } from './labour';
 import { fixed2, formatCents, shortNumber } from './money';
 import { NoteCollector } from './notes';
-import { pitchMultiplier } from './pitch';
-import { facetPriceCents, jobCost, jobPrice, marginPct } from './pricing';
+import { jobCost, jobPrice, marginPct } from './pricing';
 import type { RateCard } from './rate-card';
 import {
 	ACCESS_GRADES,
@@ -19,9 +19,7 @@ import {
 	isMaterial,
 	type AccessGrade,
 	type EstimateInput,
-	type GrowthGrade,
 	type Material,
-	type Stories,
 	type EstimateResult,
 	type FacetInput,
 	type FacetResult,
@@ -132,7 +130,6 @@ export function tryEstimate(input: EstimateInput, card: RateCard): EstimateOutco
 	const warnings = new NoteCollector();
 	const expectations = new NoteCollector();
 	const spotFacets = spot?.facetIds ? new Set(spot.facetIds) : null;
-	const steepRise = card.steepPitch.thresholdRise;
 	const details = new FacetDetailText(card);
 
 	const facets: FacetResult[] = new Array(facetsIn.length);
@@ -151,92 +148,28 @@ export function tryEstimate(input: EstimateInput, card: RateCard): EstimateOutco
 	for (let i = 0; i < facetsIn.length; i++) {
 		const f = facetsIn[i];
 		const plan = plans[i]!;
-		const mat = card.materials[f.material];
-		const gr = card.growth[f.growth];
-		const ac = card.access[f.access];
-		const st = card.stories[String(f.stories) as '1' | '2' | '3'];
-
-		const pitchMult = pitchMultiplier(f.pitch);
-		const sloped = plan.planAreaFt2 * pitchMult;
-		const squares = ft2ToSquares(sloped);
-		const steep = f.pitch > steepRise;
-
-		const suggested = suggestStrength(mat, gr);
-		const decision = applyTestSpot(
-			suggested,
-			mat,
-			spot && (!spotFacets || spotFacets.has(f.id)) ? spot : undefined,
-			card.testSpot
+		const fig = facetFigures(
+			f,
+			plan,
+			card,
+			spot && (!spotFacets || spotFacets.has(f.id)) ? spot : undefined
 		);
-		const mixGal = facetMixGal(squares, mat.coverageGalPerSquare, gr.applications);
-		const eave = eaveLength(plan.segmentLengthsFt, f.edges);
-		const ladders = ladderPlacements(f.access, eave.eaveLengthFt, card.ladder.eaveFtPerPlacement);
-		const hours = applicationHours({
-			squares,
-			applications: gr.applications,
-			productionSquaresPerHour: mat.productionSquaresPerHour,
-			accessLabourMultiplier: ac.labourMultiplier,
-			storyLabourMultiplier: st.labourMultiplier,
-			growthLabourFactor: gr.labourFactor
-		});
-		const steepMult = steep ? card.steepPitch.priceMultiplier : 1;
-		const priceCents = facetPriceCents({
-			squares,
-			perSquareCents: mat.perSquareCents,
-			growthMultiplier: gr.priceMultiplier,
-			accessMultiplier: ac.priceMultiplier,
-			storyMultiplier: st.priceMultiplier,
-			steepMultiplier: steepMult
-		});
+		const r = fig.result;
+		facets[i] = r;
+		facetLines[i] = facetLine(f, r, details);
 
-		facets[i] = {
-			id: f.id,
-			label: f.label,
-			material: f.material,
-			growth: f.growth,
-			access: f.access,
-			stories: f.stories,
-			pitch: f.pitch,
-			planAreaFt2: plan.planAreaFt2,
-			pitchMultiplier: pitchMult,
-			slopedAreaFt2: sloped,
-			squares,
-			mixStrengthPct: decision.strengthPct,
-			suggestedStrengthPct: decision.suggestedPct,
-			applications: gr.applications,
-			coverageGalPerSquare: mat.coverageGalPerSquare,
-			mixGal,
-			eaveLengthFt: eave.eaveLengthFt,
-			eaveEstimated: eave.estimated,
-			perimeterFt: plan.perimeterFt,
-			ladderPlacements: ladders,
-			labourHours: hours + ladderHours(ladders, card.ladder.setupMinutes),
-			steep,
-			priceCents
-		};
-		facetLines[i] = {
-			code: 'facet',
-			facetId: f.id,
-			label: f.label ?? `Facet ${f.id}`,
-			detail:
-				`${fixed2(squares)} sq × ${details.material(f.material)}${details.growth(f.growth)}` +
-				`${details.access(f.access)}${details.stories(f.stories)}` +
-				(steep ? details.steep(f.pitch) : ''),
-			amountCents: priceCents
-		};
-
-		planAreaFt2 += plan.planAreaFt2;
-		slopedAreaFt2 += sloped;
-		eaveLengthFt += eave.eaveLengthFt;
-		perimeterFt += plan.perimeterFt;
-		appHours += hours;
-		placements += ladders;
-		anySteep ||= steep;
+		planAreaFt2 += r.planAreaFt2;
+		slopedAreaFt2 += r.slopedAreaFt2;
+		eaveLengthFt += r.eaveLengthFt;
+		perimeterFt += r.perimeterFt;
+		appHours += fig.applicationHours;
+		placements += r.ladderPlacements;
+		anySteep ||= r.steep;
 		anyOshaSteep ||= f.pitch > OSHA_STEEP_ROOF_RISE;
 		anyLift ||= f.access === 'lift';
 		anyLadder ||= f.access === 'ladder';
 
-		collectFacetNotes(f, i, eave.estimated, decision, warnings, expectations);
+		collectFacetNotes(f, i, fig, warnings, expectations);
 	}
 
 	const chem = card.chemistry;
@@ -336,57 +269,36 @@ export function tryEstimate(input: EstimateInput, card: RateCard): EstimateOutco
  * grade keep the lookups cheap.
  */
 class FacetDetailText {
-	private readonly byMaterial: Array<string | undefined> = [
-		undefined,
-		undefined,
-		undefined,
-		undefined,
-		undefined,
-		undefined
-	];
-	private readonly byGrowth: Array<string | undefined> = [
-		undefined,
-		undefined,
-		undefined,
-		undefined,
-		undefined
-	];
-	private readonly byAccess: Array<string | undefined> = [
-		undefined,
-		undefined,
-		undefined,
-		undefined
-	];
-	private readonly byStories: Array<string | undefined> = [
-		undefined,
-		undefined,
-		undefined,
-		undefined
-	];
+	// One slot per material, grade, access grade and storey count.
+	private readonly parts: Array<string | undefined> = new Array(6 + 5 + 4 + 4).fill(undefined);
 	private steepText: string | undefined;
 	constructor(private readonly card: RateCard) {}
-	steep(pitch: number): string {
-		const mult = (this.steepText ??= ` × ${this.card.steepPitch.priceMultiplier} (steep `);
-		return `${mult}${shortNumber(pitch)}/12)`;
-	}
-	material(m: Material): string {
-		const k = materialIndex(m);
-		return (this.byMaterial[k] ??=
-			`${formatCents(this.card.materials[m].perSquareCents)}/sq (${materialName(m)})`);
-	}
-	growth(g: GrowthGrade): string {
-		const k = g.charCodeAt(1) - 48;
-		return (this.byGrowth[k] ??= ` × ${this.card.growth[g].priceMultiplier} (${g})`);
-	}
-	access(a: AccessGrade): string {
-		const k = a === 'ground' ? 0 : a === 'ladder' ? 1 : a === 'roof' ? 2 : 3;
-		return (this.byAccess[k] ??= ` × ${this.card.access[a].priceMultiplier} (${a})`);
-	}
-	stories(n: Stories): string {
-		return (this.byStories[n] ??=
-			` × ${this.card.stories[String(n) as '1' | '2' | '3'].priceMultiplier} (${n} ${n === 1 ? 'storey' : 'storeys'})`);
+
+	/** "13.42 sq × $32.00/sq (asphalt shingle) × 1.15 (G2) × 1.3 (ladder) × 1 (1 storey)…" */
+	text(f: FacetInput, squares: number, steep: boolean): string {
+		const c = this.card;
+		const p = this.parts;
+		const mi = materialIndex(f.material);
+		const gi = 6 + f.growth.charCodeAt(1) - 48;
+		const ai = 11 + accessIndex(f.access);
+		const si = 15 + f.stories;
+		const n = f.stories;
+		const text =
+			fixed2(squares) +
+			(p[mi] ??=
+				` sq × ${formatCents(c.materials[f.material].perSquareCents)}/sq (${materialName(f.material)})`) +
+			(p[gi] ??= ` × ${shortNumber(c.growth[f.growth].priceMultiplier)} (${f.growth})`) +
+			(p[ai] ??= ` × ${shortNumber(c.access[f.access].priceMultiplier)} (${f.access})`) +
+			(p[si] ??=
+				` × ${shortNumber(storyRate(c, n).priceMultiplier)} (${n} ${n === 1 ? 'storey' : 'storeys'})`);
+		if (!steep) return text;
+		this.steepText ??= ` × ${shortNumber(c.steepPitch.priceMultiplier)} (steep `;
+		return `${text}${this.steepText}${shortNumber(f.pitch)}/12)`;
 	}
 }
+
+const accessIndex = (a: AccessGrade): number =>
+	a === 'ground' ? 0 : a === 'ladder' ? 1 : a === 'roof' ? 2 : 3;
 
 function materialIndex(m: Material): number {
 	switch (m) {
@@ -488,15 +400,24 @@ function checkFacet(
 	return r.plan;
 }
 
+function facetLine(f: FacetInput, r: FacetResult, details: FacetDetailText): LineItem {
+	return {
+		code: 'facet',
+		facetId: f.id,
+		label: f.label ?? `Facet ${f.id}`,
+		detail: details.text(f, r.squares, r.steep),
+		amountCents: r.priceCents
+	};
+}
+
 function collectFacetNotes(
 	f: FacetInput,
 	i: number,
-	eaveEstimated: boolean,
-	decision: ReturnType<typeof applyTestSpot>,
+	fig: FacetFigures,
 	warnings: NoteCollector,
 	expectations: NoteCollector
 ): void {
-	if (eaveEstimated) {
+	if (fig.result.eaveEstimated) {
 		warnings.addForField(
 			'eave.estimated',
 			'eave length estimated as the longest unlabelled edge; label the eave edges for exact ladder set-ups and water',
@@ -511,16 +432,16 @@ function collectFacetNotes(
 	if (f.material === 'clay_tile' || f.material === 'concrete_tile') {
 		expectations.add('material.tile_batch', EXPECTATIONS.tileBatch, f.id);
 	}
-	if (decision.effect === 'raised') {
+	if (fig.testSpotEffect === 'raised') {
 		expectations.add('test_spot.slow', EXPECTATIONS.slowTestSpot, f.id);
-		if (decision.capped) {
+		if (fig.testSpotCapped) {
 			warnings.add(
 				'test_spot.capped',
 				"the test spot calls for a stronger mix than the material's maximum on the rate card; strength held at that maximum",
 				f.id
 			);
 		}
-	} else if (decision.effect === 'lowered') {
+	} else if (fig.testSpotEffect === 'lowered') {
 		warnings.add(
 			'test_spot.lowered',
 			'the test spot changed colour quickly and rinsed clean: mix strength lowered one step',

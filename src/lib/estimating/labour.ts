@@ -1,6 +1,6 @@
 import type { RateCard } from './rate-card';
 import type { LabourLineItem, LabourResult } from './types';
-import { roundCents } from './money';
+import { fixed2, roundCents, shortNumber } from './money';
 import { MIN_PER_HOUR } from './units';
 
 export interface FacetLabourInput {
@@ -46,13 +46,18 @@ export function jobLabour(job: JobLabourInput, card: RateCard): LabourResult {
 	const push = (code: string, label: string, hours: number, detail: string) => {
 		lineItems.push({ code, label, detail, hours, amountCents: roundCents(hours * perCrewHour) });
 	};
-	push('labour.setup', 'Set-up, pre-wet and teardown', setupHours, `${setupHours} h per job`);
+	push(
+		'labour.setup',
+		'Set-up, pre-wet and teardown',
+		setupHours,
+		`${shortNumber(setupHours)} h per job`
+	);
 	if (job.anySteep && card.steepPitch.setupHours > 0) {
 		push(
 			'labour.steep_setup',
 			'Steep-roof anchors and harness set-up',
 			card.steepPitch.setupHours,
-			`${card.steepPitch.setupHours} h per job with a facet over ${card.steepPitch.thresholdRise}/12`
+			`${shortNumber(card.steepPitch.setupHours)} h per job with a facet over ${card.steepPitch.thresholdRise}/12`
 		);
 	}
 	push(
@@ -74,12 +79,12 @@ export function jobLabour(job: JobLabourInput, card: RateCard): LabourResult {
 		'labour.rinse',
 		'Post-rinse',
 		rinseHours,
-		`${job.totalSquares.toFixed(2)} squares × ${rinseMinutesPerSquare} min`
+		`${fixed2(job.totalSquares)} squares × ${shortNumber(rinseMinutesPerSquare)} min`
 	);
 	let hours = 0;
 	let costCents = 0;
 	for (const li of lineItems) {
-		li.detail += ` = ${li.hours.toFixed(2)} crew h × ${crewSize} technicians`;
+		li.detail += ` = ${fixed2(li.hours)} crew h × ${crewSize} technicians`;
 		hours += li.hours;
 		costCents += li.amountCents;
 	}

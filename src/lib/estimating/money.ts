@@ -43,10 +43,21 @@ export function fixed2(x: number): string {
 	return `${x < 0 && r !== 0 ? '-' : ''}${i}.${f < 10 ? '0' : ''}${f}`;
 }
 
-/** A figure for display with at most two decimals and no trailing zeros: 7, 7.5, 7.25. */
+/**
+ * A figure for display with at most three decimals and no trailing zeros (7, 7.5, 1.125).
+ * Integer arithmetic, because number-to-text of a fraction is slow in the hot path.
+ */
 export function shortNumber(x: number): string {
 	if (Number.isInteger(x)) return `${x}`;
-	const t = fixed2(x);
-	if (t.endsWith('.00')) return t.slice(0, -3);
-	return t.endsWith('0') ? t.slice(0, -1) : t;
+	const r = Math.round(Math.abs(x) * 1000);
+	const i = Math.floor(r / 1000);
+	let f = r - i * 1000;
+	const sign = x < 0 && r !== 0 ? '-' : '';
+	if (f === 0) return `${sign}${i}`;
+	let digits = 3;
+	while (f % 10 === 0) {
+		f /= 10;
+		digits--;
+	}
+	return `${sign}${i}.${String(f).padStart(digits, '0')}`;
 }

@@ -1,6 +1,6 @@
 import type { RateCard } from './rate-card';
 import type { CostResult, Extra, LineItem, PriceResult } from './types';
-import { formatCents, formatRateCents, pctOf, roundCents } from './money';
+import { fixed2, formatCents, formatRateCents, pctOf, roundCents, shortNumber } from './money';
 
 export interface WarningSink {
 	add(code: string, message: string, facetId?: string, path?: string): void;
@@ -68,7 +68,7 @@ export function jobPrice(job: JobPriceInput, card: RateCard, warnings: WarningSi
 		lineItems.push({
 			code: 'post_rinse',
 			label: 'Post-rinse',
-			detail: `${job.slopedAreaFt2.toFixed(1)} ft² × ${formatRateCents(card.postRinseCentsPerFt2)}/ft²`,
+			detail: `${fixed2(job.slopedAreaFt2)} ft² × ${formatRateCents(card.postRinseCentsPerFt2)}/ft²`,
 			amountCents: postRinse
 		});
 	}
@@ -177,13 +177,13 @@ export function jobCost(c: JobCostInput, card: RateCard): CostResult {
 		{
 			code: 'cost.stock',
 			label: 'Sodium hypochlorite stock',
-			detail: `${c.totalStockGal.toFixed(2)} gal × ${formatRateCents(stockCentsPerGal)}/gal (${c.stockStrengthPct}% stock)`,
+			detail: `${fixed2(c.totalStockGal)} gal × ${formatRateCents(stockCentsPerGal)}/gal (${shortNumber(c.stockStrengthPct)}% stock)`,
 			amountCents: stockCents
 		},
 		{
 			code: 'cost.surfactant',
 			label: 'Surfactant',
-			detail: `${c.totalSurfactantOz.toFixed(1)} fl oz × ${formatRateCents(surfactantCentsPerOz)}/fl oz`,
+			detail: `${fixed2(c.totalSurfactantOz)} fl oz × ${formatRateCents(surfactantCentsPerOz)}/fl oz`,
 			amountCents: surfCents
 		},
 		{

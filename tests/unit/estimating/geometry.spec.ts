@@ -1,9 +1,11 @@
-import { area as turfArea } from '@turf/turf';
+import { kinks, area as turfArea } from '@turf/turf';
+import fc from 'fast-check';
 import type { Polygon } from 'geojson';
 import { describe, expect, it } from 'vitest';
 import {
 	eaveLength,
 	ellipsoidAreaCorrection,
+	isStrictlyConvex,
 	measureFacetPlan,
 	meridionalRadius,
 	primeVerticalRadius
@@ -237,5 +239,74 @@ describe('eave length', () => {
 			eaveLengthFt: 0,
 			estimated: false
 		});
+	});
+});
+
+describe('convex fast path (turf kinks runs only on non-convex outlines)', () => {
+	const star = (points: number, winding: number) =>
+		Array.from({ length: points + 1 }, (_, i) => {
+			const a = (2 * Math.PI * winding * (i % points)) / points;
+			return [Math.cos(a), Math.sin(a)];
+		});
+
+	it('knows convex shapes from stars, L-shapes, bow ties and collinear corners', () => {
+		expect(isStrictlyConvex(star(4, 1))).toBe(true);
+		expect(isStrictlyConvex(star(7, 1).reverse())).toBe(true);
+		// a pentagram turns the same way at every corner but winds twice, and crosses itself
+		expect(isStrictlyConvex(star(5, 2))).toBe(false);
+		expect(kinks({ type: 'Polygon', coordinates: [star(5, 2)] }).features.length).toBeGreaterThan(
+			0
+		);
+		const ell = [
+			[0, 0],
+			[2, 0],
+			[2, 1],
+			[1, 1],
+			[1, 2],
+			[0, 2],
+			[0, 0]
+		];
+		expect(isStrictlyConvex(ell)).toBe(false);
+		expect(
+			isStrictlyConvex([
+				[0, 0],
+				[1, 1],
+				[1, 0],
+				[0, 1],
+				[0, 0]
+			])
+		).toBe(false);
+		expect(
+			isStrictlyConvex([
+				[0, 0],
+				[1, 0],
+				[2, 0],
+				[2, 1],
+				[0, 1],
+				[0, 0]
+			])
+		).toBe(false);
+	});
+
+	it('never calls a self-crossing ring convex (property, checked against turf kinks)', () => {
+		const ring = fc
+			.array(fc.tuple(fc.integer({ min: -5, max: 5 }), fc.integer({ min: -5, max: 5 })), {
+				minLength: 3,
+				maxLength: 8
+			})
+			.map((pts) => {
+				const r = pts.filter((p, i) => i === 0 || p[0] !== pts[i - 1][0] || p[1] !== pts[i - 1][1]);
+				return [...r, r[0]];
+			});
+		let convexSeen = 0;
+		fc.assert(
+			fc.property(ring, (r) => {
+				if (!isStrictlyConvex(r)) return;
+				convexSeen++;
+				expect(kinks({ type: 'Polygon', coordinates: [r] }).features).toHaveLength(0);
+			}),
+			{ numRuns: 3000 }
+		);
+		expect(convexSeen).toBeGreaterThan(10);
 	});
 });

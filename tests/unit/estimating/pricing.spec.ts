@@ -251,3 +251,20 @@ describe('money helpers', () => {
 		expect(formatCents(7)).toBe('$0.07');
 	});
 });
+
+describe('display helpers', () => {
+	it('shortNumber keeps up to three decimals without trailing zeros', async () => {
+		const { shortNumber, fixed2 } = await import('../../../src/lib/estimating/money');
+		expect([7, 7.5, 1.15, 1.125, 0.05, 10.25, -2.5, 3.0004].map(shortNumber)).toEqual([
+			'7',
+			'7.5',
+			'1.15',
+			'1.125',
+			'0.05',
+			'10.25',
+			'-2.5',
+			'3'
+		]);
+		expect([0, 13.416, 2.005, 100.999].map(fixed2)).toEqual(['0.00', '13.42', '2.01', '101.00']);
+	});
+});
