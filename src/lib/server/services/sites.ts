@@ -1,7 +1,12 @@
+import fs from 'node:fs/promises';
+import path from 'node:path';
 import { and, asc, eq, ilike, or } from 'drizzle-orm';
+import { z } from 'zod';
+import type { Imagery } from '$lib/map/imagery';
 import type { SiteInput } from '$lib/schemas/site';
 import { getDb } from '../db';
-import { customers, sites } from '../db/schema';
+import { companies, customers, sites, type SiteFlags } from '../db/schema';
+import { env } from '../env';
 
 export type SiteSummary = {
 	id: string;
@@ -14,7 +19,8 @@ export type SiteSummary = {
 
 export async function listSites(companyId: string, q?: string): Promise<SiteSummary[]> {
 	const db = await getDb();
-	const text = q?.trim();
+	// % and _ are wildcards to ILIKE; a search for "50%" means the characters.
+	const text = q?.trim().replace(/[\\%_]/g, (c) => `\\${c}`);
 	return db
 		.select({
 			id: sites.id,
@@ -29,9 +35,7 @@ export async function listSites(companyId: string, q?: string): Promise<SiteSumm
 		.where(
 			and(
 				eq(sites.companyId, companyId),
-				text
-					? or(ilike(sites.address, `%${text}%`), ilike(customers.name, `%${text}%`))
-					: undefined
+				text ? or(ilike(sites.address, `%${text}%`), ilike(customers.name, `%${text}%`)) : undefined
 			)
 		)
 		.orderBy(asc(sites.address));
@@ -75,4 +79,89 @@ export async function createSite(companyId: string, input: SiteInput) {
 			.returning({ id: sites.id });
 		return site.id;
 	});
+}
+
+export interface SiteDetail {
+	id: string;
+	address: string;
+	lat: number;
+	lon: number;
+	notes: string;
+	gateCode: string | null;
+	pets: string | null;
+	waterSource: string | null;
+	flags: SiteFlags;
+	sceneHouseId: string | null;
+	customer: { name: string; email: string | null; phone: string | null };
+}
+
+/** What a page or the API may show of a site: no internal columns. */
+export async function getSiteDetail(companyId: string, siteId: string): Promise<SiteDetail | null> {
+	const row = await getSite(companyId, siteId);
+	if (!row) return null;
+	const { site, customer } = row;
+	return {
+		id: site.id,
+		address: site.address,
+		lat: site.lat,
+		lon: site.lon,
+		notes: site.notes,
+		gateCode: site.gateCode,
+		pets: site.pets,
+		waterSource: site.waterSource,
+		flags: site.flags,
+		sceneHouseId: site.sceneHouseId,
+		customer: { name: customer.name, email: customer.email, phone: customer.phone }
+	};
+}
+
+const SAMPLE_ATTRIBUTION = 'Sample imagery of an invented neighbourhood · Clearpitch';
+
+const tileJsonSchema = z.object({
+	minzoom: z.number().int().min(0).max(24).optional(),
+	maxzoom: z.number().int().min(0).max(24).optional(),
+	bounds: z.tuple([z.number(), z.number(), z.number(), z.number()]).optional(),
+	attribution: z.string().max(300).optional()
+});
+
+/** The sample's TileJSON is written by the tile generator; read it once per process. */
+let sampleTileJson: Promise<z.infer<typeof tileJsonSchema>> | undefined;
+function readSampleTileJson() {
+	sampleTileJson ??= fs
+		.readFile(path.join(env.tilesDir, 'tiles.json'), 'utf8')
+		.then((t) => tileJsonSchema.parse(JSON.parse(t)))
+		.catch(() => {
+			sampleTileJson = undefined;
+			return {};
+		});
+	return sampleTileJson;
+}
+
+export type { Imagery };
+
+export async function companyImagery(companyId: string): Promise<Imagery> {
+	const db = await getDb();
+	const [c] = await db
+		.select({ template: companies.imageryUrlTemplate, attribution: companies.imageryAttribution })
+		.from(companies)
+		.where(eq(companies.id, companyId));
+	if (c?.template) {
+		return {
+			sample: false,
+			tiles: c.template,
+			attribution: c.attribution ?? '',
+			minZoom: 0,
+			maxZoom: 21,
+			bounds: null
+		};
+	}
+	const tj = await readSampleTileJson();
+	return {
+		sample: true,
+		tiles: '/tiles/{z}/{x}/{y}.webp',
+		attribution: tj.attribution ?? SAMPLE_ATTRIBUTION,
+		minZoom: tj.minzoom ?? 16,
+		maxZoom: tj.maxzoom ?? 21,
+		bounds: tj.bounds ?? null
+	};
 }

@@ -1,25 +1,32 @@
 import { error } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth/guard';
-import { getSite } from '$lib/server/services/sites';
+import { getPlan, listVersions } from '$lib/server/services/roof-plans';
+import { companyImagery, getSiteDetail } from '$lib/server/services/sites';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
 	const user = requireRole(event, 'owner', 'estimator', 'sales');
-	const row = await getSite(user.companyId, event.params.id);
-	if (!row) error(404, 'No such site.');
-	const { site, customer } = row;
+	const site = await getSiteDetail(user.companyId, event.params.id);
+	if (!site) error(404, 'No such site.');
+	const [plan, versions, imagery] = await Promise.all([
+		getPlan(user.companyId, site.id),
+		listVersions(user.companyId, site.id),
+		companyImagery(user.companyId)
+	]);
+	const { customer, ...rest } = site;
 	return {
-		site: {
-			id: site.id,
-			address: site.address,
-			lat: site.lat,
-			lon: site.lon,
-			notes: site.notes,
-			gateCode: site.gateCode,
-			pets: site.pets,
-			waterSource: site.waterSource,
-			flags: site.flags
+		site: rest,
+		customer,
+		imagery,
+		plan: plan && {
+			version: plan.version,
+			source: plan.source,
+			createdAt: plan.createdAt,
+			createdBy: plan.createdBy,
+			facets: plan.facets,
+			measures: plan.measures,
+			totals: plan.totals
 		},
-		customer: { name: customer.name, email: customer.email, phone: customer.phone }
+		versionCount: versions.length
 	};
 };
