@@ -2,6 +2,7 @@ import { json } from '@sveltejs/kit';
 import { estimateRequestSchema } from '$lib/schemas/estimate';
 import { readJson } from '$lib/server/api/body';
 import { answer, zodInvalid } from '$lib/server/api/errors';
+import { jsonResponse } from '$lib/server/api/respond';
 import { estimateListQuerySchema, queryObject } from '$lib/server/api/schemas';
 import { requireRole } from '$lib/server/auth/guard';
 import { listEstimates, priceEstimate } from '$lib/server/services/estimates';
@@ -13,7 +14,7 @@ export const POST: RequestHandler = (event) =>
 		const parsed = estimateRequestSchema.safeParse(await readJson(event.request));
 		if (!parsed.success) throw zodInvalid(parsed.error);
 		const priced = await priceEstimate(user, parsed.data);
-		return json(priced, { status: priced.estimate ? 201 : 200 });
+		return jsonResponse(priced, priced.estimate ? 201 : 200);
 	});
 
 export const GET: RequestHandler = (event) =>

@@ -1,0 +1,138 @@
+// The Estimates list filters in place (no page load), and an estimate page shows its chart,
+// line items and status actions, in Chromium against the built server.
+import type { BrowserContext, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { openBrowser } from '../helpers/browser';
+import {
+	DEMO,
+	DEMO_PASSWORD,
+	seededDataDir,
+	startServer,
+	type TestServer
+} from '../helpers/server';
+import { prepareDataDir, sceneRequest, type Prepared } from '../integration/api-helpers';
+
+let server: TestServer;
+let ctx: BrowserContext;
+let page: Page;
+let prep: Prepared;
+const made: Record<string, { id: string; totalCents: number; lines: number }> = {};
+
+beforeAll(async () => {
+	const dir = seededDataDir('e2e-estimates');
+	prep = await prepareDataDir(dir);
+	server = await startServer(dir);
+	for (const house of ['h01', 'h02', 'h04', 'h05']) {
+		const site = prep.sites.find((s) => s.houseId === house)!;
+		const res = await fetch(`${server.url}/api/estimates`, {
+			method: 'POST',
+			headers: { authorization: `Bearer ${prep.ownerToken}`, 'content-type': 'application/json' },
+			body: JSON.stringify({ ...sceneRequest(house), siteId: site.id, save: true })
+		});
+		expect(res.status).toBe(201);
+		const body = await res.json();
+		made[house] = {
+			id: body.estimate.id,
+			totalCents: body.price.totalCents,
+			lines: body.price.lineItems.length
+		};
+	}
+	ctx = await openBrowser({ width: 1280, height: 900 });
+	page = ctx.pages()[0] ?? (await ctx.newPage());
+	await page.goto(`${server.url}/sign-in`);
+	await page.getByLabel('E-mail').fill(DEMO.estimator);
+	await page.getByLabel('Password').fill(DEMO_PASSWORD);
+	await page.getByRole('button', { name: 'Sign in' }).click();
+	await page.waitForURL(`${server.url}/`);
+});
+afterAll(async () => {
+	await ctx?.close();
+	await server?.stop();
+});
+
+const rows = () => page.getByTestId('estimate-row');
+const waitRows = (n: number) =>
+	page.waitForFunction(
+		(want) =>
+			document.querySelectorAll('[data-testid="estimate-row"]').length === want &&
+			!document.querySelector('[aria-busy="true"]'),
+		n
+	);
+
+describe('Estimates list', () => {
+	it('filters and keeps the filter in the URL without reloading the page', async () => {
+		await page.goto(`${server.url}/estimates`);
+		await waitRows(4);
+		await page.evaluate(() => ((window as unknown as { __stay: number }).__stay = 42));
+
+		await page.getByLabel('Address or customer').fill('alder');
+		await waitRows(2);
+		const addresses = await rows().locator('a').allInnerTexts();
+		expect(addresses.every((a) => a.includes('Alder Loop'))).toBe(true);
+		expect(new URL(page.url()).searchParams.get('text')).toBe('alder');
+
+		await page.getByLabel('Status').selectOption('ready');
+		await page.getByText('No estimates match').waitFor();
+		expect(new URL(page.url()).searchParams.get('status')).toBe('ready');
+		await page.getByRole('button', { name: 'Clear the filters' }).click();
+		await waitRows(4);
+		expect(new URL(page.url()).search).toBe('');
+
+		// Still the first document: no navigation happened, and the marker survived.
+		expect(await page.evaluate(() => performance.getEntriesByType('navigation').length)).toBe(1);
+		expect(await page.evaluate(() => (window as unknown as { __stay?: number }).__stay)).toBe(42);
+	});
+
+	it('opens with the filter from the URL', async () => {
+		const site = prep.sites.find((s) => s.houseId === 'h04')!;
+		await page.goto(`${server.url}/estimates?site=${site.id}`);
+		await waitRows(1);
+		expect(await rows().first().innerText()).toContain(site.address);
+		expect(await page.getByLabel('Site').inputValue()).toBe(site.id);
+	});
+});
+
+describe('an estimate page', () => {
+	it('shows the chart, the line items, and moves the estimate by role', async () => {
+		const e = made.h04;
+		await page.goto(`${server.url}/estimates/${e.id}`);
+		const canvas = page.getByTestId('price-chart');
+		await canvas.waitFor();
+		// chart.js has drawn: the doughnut leaves coloured pixels on the canvas.
+		await page.waitForFunction(() => {
+			const c = document.querySelector('[data-testid="price-chart"]') as HTMLCanvasElement;
+			const d = c.getContext('2d')!.getImageData(0, 0, c.width, c.height).data;
+			for (let i = 3; i < d.length; i += 4) if (d[i] > 0) return true;
+			return false;
+		});
+		expect(await page.getByTestId('price-lines').getByTestId('line-item').count()).toBe(e.lines);
+		const total = (e.totalCents / 100).toLocaleString('en-US', {
+			style: 'currency',
+			currency: 'USD'
+		});
+		expect(await page.getByTestId('estimate-total').innerText()).toBe(total);
+		expect(await page.getByTestId('facet-table').locator('tbody tr').count()).toBe(7);
+		expect(await page.getByText('Never mix it with acids or ammonia').count()).toBe(1);
+		await page.screenshot({ path: 'screenshots/estimate-e2e-1280.png', fullPage: true });
+
+		// An estimator may mark a draft ready, and has no further move after that.
+		await page.getByRole('button', { name: 'Mark ready' }).click();
+		await page.getByRole('status').filter({ hasText: 'Marked ready' }).waitFor();
+		expect(await page.getByTestId('status-badge').first().innerText()).toBe('Ready');
+		expect(await page.getByRole('button', { name: 'Mark sent' }).count()).toBe(0);
+	});
+
+	it('loads chart.js only on the estimate page', async () => {
+		const scripts: string[] = [];
+		page.on('response', (r) => r.url().includes('/_app/') && scripts.push(r.url()));
+		await page.goto(`${server.url}/estimates`);
+		await waitRows(4);
+		const listScripts = [...scripts];
+		const bodies = await Promise.all(
+			listScripts
+				.filter((u) => u.endsWith('.js'))
+				.map(async (u) => (await page.request.get(u)).text())
+		);
+		expect(bodies.some((b) => b.includes('DoughnutController'))).toBe(false);
+	});
+});
