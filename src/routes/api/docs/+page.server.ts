@@ -46,9 +46,9 @@ export const load: PageServerLoad = (event) => {
 					in: p.in,
 					required: p.required ?? false,
 					type: schemaRows({ properties: { x: p.schema } } as never)[0]?.type ?? '',
-					notes: [p.description, schemaRows({ properties: { x: p.schema } } as never)[0]?.notes]
+					notes: [schemaRows({ properties: { x: p.schema } } as never)[0]?.notes, p.description]
 						.filter(Boolean)
-						.join('; ')
+						.join('. ')
 				}));
 				const responses = Object.entries(op.responses).map(([status, r]) => ({
 					status,
@@ -61,7 +61,7 @@ export const load: PageServerLoad = (event) => {
 					method: method.toUpperCase(),
 					path,
 					summary: op.summary ?? '',
-					description: op.description ?? '',
+					description: (op.description ?? '').replaceAll('`', ''),
 					params,
 					body: body ? { schema: refName(body.schema.$ref)!, example: body.example } : null,
 					responses
@@ -75,7 +75,7 @@ export const load: PageServerLoad = (event) => {
 	return {
 		title: doc.info.title,
 		version: doc.info.version,
-		intro: doc.info.description,
+		intro: doc.info.description.replaceAll('`', ''),
 		endpoints,
 		fields,
 		limitKb: MAX_JSON_BYTES / 1024,
