@@ -3,9 +3,12 @@
  * the same built server, same run, same body, same API token, 10 connections (autocannon).
  * Latencies come from every response autocannon reports, not from its 1 ms histogram buckets.
  */
+import { spawn } from 'node:child_process';
+import fs from 'node:fs';
 import { createRequire } from 'node:module';
+import path from 'node:path';
 import { prepareDataDir } from '../tests/integration/api-helpers';
-import { seededDataDir, startServer } from '../tests/helpers/server';
+import { freePort, seededDataDir } from '../tests/helpers/server';
 import { benchRoof } from './model';
 
 const require = createRequire(import.meta.url);
@@ -51,6 +54,58 @@ function run(opts: Record<string, unknown>, times?: number[]): Promise<Result> {
 	});
 }
 
+/**
+ * Runs a private copy of build/, so a rebuild in the shared tree during the run can't swap the
+ * server's files underneath it.
+ */
+async function startSnapshotServer(dataDir: string) {
+	if (!fs.existsSync('build/index.js')) throw new Error('Run `npx vite build` before the bench.');
+	const snapshot = path.resolve('tmp', `bench-build-${process.pid}`);
+	fs.rmSync(snapshot, { recursive: true, force: true });
+	fs.cpSync('build', snapshot, { recursive: true });
+	const port = await freePort();
+	const url = `http://localhost:${port}`;
+	let log = '';
+	const proc = spawn(process.execPath, [path.join(snapshot, 'index.js')], {
+		env: {
+			...process.env,
+			PORT: String(port),
+			ORIGIN: url,
+			CLEARPITCH_DATA_DIR: dataDir,
+			DATABASE_URL: ''
+		},
+		stdio: ['ignore', 'pipe', 'pipe']
+	});
+	proc.stdout.on('data', (d) => (log += d));
+	proc.stderr.on('data', (d) => (log += d));
+	const deadline = Date.now() + 60_000;
+	for (;;) {
+		if (proc.exitCode !== null) throw new Error(`The server exited:\n${log}`);
+		if (Date.now() > deadline) throw new Error(`The server did not start:\n${log}`);
+		try {
+			if ((await fetch(`${url}/api/health`)).ok) break;
+		} catch {
+			/* not listening yet */
+		}
+		await new Promise((r) => setTimeout(r, 200));
+	}
+	return {
+		url,
+		log: () => log,
+		stop: () =>
+			new Promise<void>((resolve) => {
+				const done = () => {
+					fs.rmSync(snapshot, { recursive: true, force: true });
+					resolve();
+				};
+				if (proc.exitCode !== null) return done();
+				proc.once('exit', done);
+				proc.kill('SIGTERM');
+				setTimeout(() => proc.kill('SIGKILL'), 10_000).unref();
+			})
+	};
+}
+
 export async function benchApi(
 	opts: { secondsEach?: number; rounds?: number; connections?: number } = {}
 ): Promise<ApiBench> {
@@ -60,7 +115,7 @@ export async function benchApi(
 
 	const dir = seededDataDir('bench');
 	const { ownerToken } = await prepareDataDir(dir);
-	const server = await startServer(dir);
+	const server = await startSnapshotServer(dir);
 	const body = JSON.stringify(benchRoof(30));
 	const common = {
 		method: 'POST',
