@@ -13,6 +13,8 @@ const RATIO_TARGET = 1.3;
 const fmt = (x: number, d = 2) =>
 	x.toLocaleString('en-US', { maximumFractionDigits: d, minimumFractionDigits: d });
 
+// Other work on the machine skews both figures; the load average goes into the results.
+const loadBefore = os.loadavg()[0];
 console.log('Model: pricing a 30-facet roof…');
 const model = await benchModel({ durationMs: 3000 });
 console.log(`  ${Math.round(model.estimatesPerSec).toLocaleString('en-US')} estimates/s`);
@@ -38,7 +40,7 @@ const table = [
 const setting =
 	`${api.connections} connections, ${api.secondsEach} s per endpoint in alternating rounds after a 3 s warm-up, ` +
 	`same ${fmt(api.bodyBytes / 1024, 1)} KB body and API token for both, built server on PGlite; ` +
-	`${os.cpus().length} × ${os.cpus()[0]?.model.trim() ?? 'CPU'}, Node ${process.version}, ${new Date().toISOString().slice(0, 10)}.`;
+	`${os.cpus().length} × ${os.cpus()[0]?.model.trim() ?? 'CPU'}, Node ${process.version}, load average ${fmt(loadBefore, 1)} → ${fmt(os.loadavg()[0], 1)}, ${new Date().toISOString().slice(0, 10)}.`;
 
 const md = `# Benchmarks\n\n\`npm run bench\` (after \`npx vite build\`).\n\n${table}\n\n${setting}\n`;
 console.log('\n' + table + '\n\n' + setting);
