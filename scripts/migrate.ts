@@ -3,5 +3,7 @@ import { closeDb, databaseKind } from '../src/lib/server/db';
 import { env } from '../src/lib/server/env';
 
 const kind = await databaseKind();
-console.log(`Migrations applied (${kind === 'pglite' ? `PGlite at ${env.dataDir}` : 'PostgreSQL'}).`);
+console.log(
+	`Migrations applied (${kind === 'pglite' ? `PGlite at ${env.dataDir}` : 'PostgreSQL'}).`
+);
 await closeDb();

@@ -18,7 +18,10 @@ for (const width of [1280, 768, 390]) {
 		await page.goto(`${base}/sign-in`);
 		await page.fill('input[name=email]', email);
 		await page.fill('input[name=password]', DEMO_PASSWORD);
-		await Promise.all([page.waitForURL((u) => !u.pathname.startsWith('/sign-in')), page.click('button[type=submit], form button')]);
+		await Promise.all([
+			page.waitForURL((u) => !u.pathname.startsWith('/sign-in')),
+			page.click('button[type=submit], form button')
+		]);
 		await page.screenshot({ path: `${out}/${role}-today-${width}.png`, fullPage: true });
 		if (role === 'owner') {
 			for (const p of ['/team', '/sites', ...extra]) {

@@ -2,7 +2,13 @@
 import type { BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openBrowser } from '../helpers/browser';
-import { DEMO, DEMO_PASSWORD, seededDataDir, startServer, type TestServer } from '../helpers/server';
+import {
+	DEMO,
+	DEMO_PASSWORD,
+	seededDataDir,
+	startServer,
+	type TestServer
+} from '../helpers/server';
 
 let server: TestServer;
 let ctx: BrowserContext;

@@ -157,9 +157,7 @@ describe('session lifecycle', () => {
 		expect(wendell.cookie).not.toBeNull();
 		expect((await get('/sites', wendell.cookie!)).status).toBe(200);
 
-		const team = await (
-			await get('/api/team', owner, { accept: 'application/json' })
-		).json();
+		const team = await (await get('/api/team', owner, { accept: 'application/json' })).json();
 		const id = team.members.find((m: { email: string }) => m.email.startsWith('wendell')).id;
 		expect((await post('/team?/deactivate', owner, { userId: id })).status).toBe(200);
 

@@ -53,7 +53,9 @@ describe('PostgreSQL through DATABASE_URL', () => {
 			expect(new Set(cols.rows.map((r) => r.table_name)).size).toBeGreaterThanOrEqual(8);
 			const users = await client.query('select email, role from users order by email');
 			expect(users.rows).toHaveLength(4);
-			const migrations = await client.query('select count(*)::int as n from drizzle.__drizzle_migrations');
+			const migrations = await client.query(
+				'select count(*)::int as n from drizzle.__drizzle_migrations'
+			);
 			expect(migrations.rows[0].n).toBeGreaterThanOrEqual(1);
 		} finally {
 			await client.end();

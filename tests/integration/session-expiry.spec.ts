@@ -6,7 +6,10 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 const DAY = 24 * 60 * 60 * 1000;
 
 beforeAll(() => {
-	process.env.CLEARPITCH_DATA_DIR = path.resolve('tmp/data', `session-${process.pid}-${Date.now()}`);
+	process.env.CLEARPITCH_DATA_DIR = path.resolve(
+		'tmp/data',
+		`session-${process.pid}-${Date.now()}`
+	);
 	process.env.DATABASE_URL = '';
 });
 

@@ -8,7 +8,8 @@ export const imagerySchema = z.object({
 		.max(500, 'Keep the template under 500 characters.')
 		.transform((v) => v || null)
 		.refine(
-			(v) => v === null || (/^https:\/\//.test(v) && ['{z}', '{x}', '{y}'].every((p) => v.includes(p))),
+			(v) =>
+				v === null || (/^https:\/\//.test(v) && ['{z}', '{x}', '{y}'].every((p) => v.includes(p))),
 			'Use an https:// URL that contains {z}, {x} and {y}, or leave it blank for the sample imagery.'
 		),
 	attribution: z

@@ -86,5 +86,12 @@ async function userFromToken(token: string): Promise<LocalUser | null> {
 		await db.update(apiTokens).set({ lastUsedAt: new Date() }).where(eq(apiTokens.id, row.tokenId));
 	}
 	const u = row.user;
-	return { id: u.id, email: u.email, name: u.name, role: u.role, companyId: u.companyId, via: 'token' };
+	return {
+		id: u.id,
+		email: u.email,
+		name: u.name,
+		role: u.role,
+		companyId: u.companyId,
+		via: 'token'
+	};
 }

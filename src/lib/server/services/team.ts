@@ -106,10 +106,7 @@ export async function setActive(companyId: string, userId: string, active: boole
 		await tx.update(users).set({ active }).where(eq(users.id, userId));
 		if (!active) {
 			await tx.delete(sessions).where(eq(sessions.userId, userId));
-			await tx
-				.update(apiTokens)
-				.set({ revokedAt: new Date() })
-				.where(eq(apiTokens.userId, userId));
+			await tx.update(apiTokens).set({ revokedAt: new Date() }).where(eq(apiTokens.userId, userId));
 		}
 	});
 }

@@ -22,7 +22,11 @@ export const load: PageServerLoad = async (event) => {
 
 function teamFail(e: unknown, action: string) {
 	if (e instanceof TeamError) {
-		return fail(400, { action, message: e.message, errors: e.field ? { [e.field]: e.message } : {} });
+		return fail(400, {
+			action,
+			message: e.message,
+			errors: e.field ? { [e.field]: e.message } : {}
+		});
 	}
 	throw e;
 }
@@ -46,7 +50,8 @@ export const actions: Actions = {
 	role: async (event) => {
 		const user = requireRole(event, 'owner');
 		const parsed = setRoleSchema.safeParse(formObject(await event.request.formData()));
-		if (!parsed.success) return fail(400, { action: 'role', message: parsed.error.issues[0].message });
+		if (!parsed.success)
+			return fail(400, { action: 'role', message: parsed.error.issues[0].message });
 		try {
 			await setRole(user.companyId, parsed.data.userId, parsed.data.role);
 		} catch (e) {
@@ -57,7 +62,8 @@ export const actions: Actions = {
 	deactivate: async (event) => {
 		const user = requireRole(event, 'owner');
 		const parsed = userIdSchema.safeParse(formObject(await event.request.formData()));
-		if (!parsed.success) return fail(400, { action: 'deactivate', message: parsed.error.issues[0].message });
+		if (!parsed.success)
+			return fail(400, { action: 'deactivate', message: parsed.error.issues[0].message });
 		try {
 			await setActive(user.companyId, parsed.data.userId, false);
 		} catch (e) {
@@ -68,7 +74,8 @@ export const actions: Actions = {
 	reactivate: async (event) => {
 		const user = requireRole(event, 'owner');
 		const parsed = userIdSchema.safeParse(formObject(await event.request.formData()));
-		if (!parsed.success) return fail(400, { action: 'reactivate', message: parsed.error.issues[0].message });
+		if (!parsed.success)
+			return fail(400, { action: 'reactivate', message: parsed.error.issues[0].message });
 		try {
 			await setActive(user.companyId, parsed.data.userId, true);
 		} catch (e) {
@@ -86,7 +93,8 @@ export const actions: Actions = {
 	revoke: async (event) => {
 		const user = requireRole(event, 'owner');
 		const id = formObject(await event.request.formData()).tokenId ?? '';
-		if (!/^[0-9a-f-]{36}$/i.test(id)) return fail(400, { action: 'revoke', message: 'Unknown token.' });
+		if (!/^[0-9a-f-]{36}$/i.test(id))
+			return fail(400, { action: 'revoke', message: 'Unknown token.' });
 		await revokeToken(user.companyId, id);
 		return { action: 'revoke', done: 'Token revoked.' };
 	}

@@ -23,6 +23,9 @@ export const GET: RequestHandler = async ({ params }) => {
 		});
 	} catch {
 		// Outside the scene: an empty 204 keeps map libraries quiet without a 404 per tile.
-		return new Response(null, { status: 204, headers: { 'cache-control': 'public, max-age=86400' } });
+		return new Response(null, {
+			status: 204,
+			headers: { 'cache-control': 'public, max-age=86400' }
+		});
 	}
 };
