@@ -85,8 +85,7 @@ async function call(
 }
 
 const versionCount = async (id = siteId) =>
-	((await call('GET', `/api/sites/${id}/roof-plans`, estimator)).body.versions as unknown[])
-		.length;
+	((await call('GET', `/api/sites/${id}/roof-plans`, estimator)).body.versions as unknown[]).length;
 
 // h04: hip roof with a hip-ended garage, seven clay-tile facets (geodata/scene.geojson).
 const scene = facetsOf('h04').map((f) => ({
@@ -286,7 +285,12 @@ describe('versions', () => {
 		expect(r.status).toBe(409);
 		expect(r.body.latestVersion).toBe(latest);
 		expect(await versionCount()).toBe(latest);
-		const ok = await call('POST', '/api/roof-plans', estimator, plan(scene, { baseVersion: latest }));
+		const ok = await call(
+			'POST',
+			'/api/roof-plans',
+			estimator,
+			plan(scene, { baseVersion: latest })
+		);
 		expect(ok.status).toBe(201);
 		saves++;
 		expect(ok.body.plan.version).toBe(latest + 1);
@@ -354,9 +358,9 @@ describe('who may read and write', () => {
 			plan(scene, { siteId: '00000000-0000-4000-8000-000000000000' })
 		);
 		expect(unknown.status).toBe(404);
-		expect((await call('GET', `/api/sites/${otherCompanySiteId}/roof-plans`, estimator)).status).toBe(
-			404
-		);
+		expect(
+			(await call('GET', `/api/sites/${otherCompanySiteId}/roof-plans`, estimator)).status
+		).toBe(404);
 		expect(
 			(await call('GET', `/api/sites/${otherCompanySiteId}/roof-plans/latest`, estimator)).status
 		).toBe(404);
