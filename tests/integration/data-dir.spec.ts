@@ -32,15 +32,21 @@ describe('embedded PGlite data directory', () => {
 		const before = {
 			users: await countRows(dir, 'users'),
 			sites: await countRows(dir, 'sites'),
-			customers: await countRows(dir, 'customers')
+			customers: await countRows(dir, 'customers'),
+			roofPlans: await countRows(dir, 'roof_plans'),
+			estimates: await countRows(dir, 'estimates')
 		};
+		expect(first.stdout).toMatch(/1 rate cards, 6 roof plans, 6 estimates/);
+		expect(before.estimates).toBe(6);
 		expect(before.users).toBe(4);
 		expect(before.sites).toBeGreaterThanOrEqual(12);
 		const second = await run('npx', ['tsx', 'scripts/seed.ts'], { env });
-		expect(second.stdout).toMatch(/0 users, 0 sites, 0 rate cards/);
+		expect(second.stdout).toMatch(/0 users, 0 sites, 0 rate cards, 0 roof plans, 0 estimates/);
 		expect(await countRows(dir, 'users')).toBe(before.users);
 		expect(await countRows(dir, 'sites')).toBe(before.sites);
 		expect(await countRows(dir, 'customers')).toBe(before.customers);
+		expect(await countRows(dir, 'roof_plans')).toBe(before.roofPlans);
+		expect(await countRows(dir, 'estimates')).toBe(before.estimates);
 	});
 
 	it('fails a second server on the same directory fast, and the first keeps its data', async () => {

@@ -26,7 +26,7 @@ describe('PostgreSQL through DATABASE_URL', () => {
 		expect(m.stdout).toMatch(/Migrations applied \(PostgreSQL\)/);
 		await run('npx', ['tsx', 'scripts/seed.ts'], { env });
 		const again = await run('npx', ['tsx', 'scripts/seed.ts'], { env });
-		expect(again.stdout).toMatch(/0 users, 0 sites, 0 rate cards/);
+		expect(again.stdout).toMatch(/0 users, 0 sites, 0 rate cards, 0 roof plans, 0 estimates/);
 
 		const client = new pg.Client({ connectionString: pgServer.url });
 		await client.connect();

@@ -59,9 +59,10 @@ function sceneHouses(): SceneHouse[] {
 		.map((f) => f.properties as unknown as SceneHouse);
 }
 
-export async function seedDemo() {
+/** `samples` adds measured plans and estimates for the demo; tests start without them. */
+export async function seedDemo(opts: { samples?: boolean } = {}) {
 	const db = await getDb();
-	const created = { users: 0, sites: 0, rateCards: 0 };
+	const created = { users: 0, sites: 0, rateCards: 0, roofPlans: 0, estimates: 0 };
 
 	let [company] = await db.select().from(companies).where(eq(companies.name, DEMO_COMPANY));
 	if (!company) [company] = await db.insert(companies).values({ name: DEMO_COMPANY }).returning();
@@ -102,5 +103,11 @@ export async function seedDemo() {
 	}
 
 	created.rateCards += await seedRateCard(company.id);
+	if (opts.samples) {
+		const { seedSamples } = await import('./samples');
+		const made = await seedSamples(company.id);
+		created.roofPlans += made.plans;
+		created.estimates += made.estimates;
+	}
 	return { companyId: company.id, created };
 }

@@ -1,0 +1,93 @@
+import { and, count, eq } from 'drizzle-orm';
+import { facetsOf } from '../../../../geodata/scene';
+import type { Role } from '$lib/roles';
+import { savePlanSchema } from '$lib/schemas/roof-plan';
+import { estimateRequestSchema } from '$lib/schemas/estimate';
+import { getDb } from '../db';
+import { estimates, roofPlans, sites, users } from '../db/schema';
+import { changeStatus, priceEstimate, type EstimateStatus } from '../services/estimates';
+import { savePlan } from '../services/roof-plans';
+
+/**
+ * Demo only: measured roof plans and estimates at various stages for some scene houses, so a
+ * first look at the demo isn't empty. h01–h03 stay unmeasured for trying the editor.
+ */
+const SAMPLES: { houseId: string; status: EstimateStatus }[] = [
+	{ houseId: 'h04', status: 'sent' },
+	{ houseId: 'h05', status: 'draft' },
+	{ houseId: 'h06', status: 'ready' },
+	{ houseId: 'h07', status: 'accepted' },
+	{ houseId: 'h09', status: 'scheduled' },
+	{ houseId: 'h10', status: 'paid' }
+];
+
+const PATH: EstimateStatus[] = ['draft', 'ready', 'sent', 'accepted', 'scheduled', 'done', 'paid'];
+
+export async function seedSamples(
+	companyId: string
+): Promise<{ plans: number; estimates: number }> {
+	const db = await getDb();
+	const [owner] = await db
+		.select({ id: users.id, role: users.role })
+		.from(users)
+		.where(and(eq(users.companyId, companyId), eq(users.role, 'owner')))
+		.limit(1);
+	const caller = { id: owner.id, companyId, role: 'owner' as Role };
+	const made = { plans: 0, estimates: 0 };
+
+	for (const sample of SAMPLES) {
+		const [site] = await db
+			.select({ id: sites.id })
+			.from(sites)
+			.where(and(eq(sites.companyId, companyId), eq(sites.sceneHouseId, sample.houseId)));
+		if (!site) continue;
+		const [{ n: plansThere }] = await db
+			.select({ n: count() })
+			.from(roofPlans)
+			.where(eq(roofPlans.siteId, site.id));
+		if (plansThere > 0) continue;
+
+		const facets = facetsOf(sample.houseId).map((f) => ({
+			id: f.properties.facetId,
+			label: f.properties.label,
+			geometry: f.geometry,
+			pitch: f.properties.pitch,
+			material: f.properties.material,
+			growth: f.properties.growth,
+			access: f.properties.access,
+			stories: f.properties.stories,
+			edges: f.properties.edges
+		}));
+		const plan = savePlanSchema.parse({
+			siteId: site.id,
+			facets,
+			source: 'remote',
+			note: 'Traced from the sample imagery'
+		});
+		const saved = await savePlan(companyId, owner.id, plan);
+		if (!saved.ok) throw new Error(`Sample roof plan for ${sample.houseId}: ${saved.reason}`);
+		made.plans += 1;
+
+		const request = estimateRequestSchema.parse({
+			siteId: site.id,
+			roofPlanId: saved.plan.id,
+			save: true,
+			facets: facets.map(({ geometry, ...f }) => ({ ...f, polygon: geometry }))
+		});
+		const priced = await priceEstimate(caller, request);
+		made.estimates += 1;
+		for (const to of PATH.slice(1, PATH.indexOf(sample.status) + 1)) {
+			await changeStatus(caller, priced.estimate!.id, to);
+		}
+	}
+	return made;
+}
+
+export async function estimateCount(companyId: string): Promise<number> {
+	const db = await getDb();
+	const [{ n }] = await db
+		.select({ n: count() })
+		.from(estimates)
+		.where(eq(estimates.companyId, companyId));
+	return n;
+}
