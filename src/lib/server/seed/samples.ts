@@ -17,7 +17,7 @@ const SAMPLES: { houseId: string; status: EstimateStatus }[] = [
 	{ houseId: 'h05', status: 'draft' },
 	{ houseId: 'h06', status: 'ready' },
 	{ houseId: 'h07', status: 'accepted' },
-	{ houseId: 'h09', status: 'scheduled' },
+	{ houseId: 'h09', status: 'accepted' },
 	{ houseId: 'h10', status: 'paid' }
 ];
 
