@@ -45,6 +45,7 @@ export function createBaseMap(
 		...options
 	});
 	map.attributionControl.setPrefix(false);
+	L.control.scale({ position: 'bottomleft', maxWidth: 120 }).addTo(map);
 	imageryLayer(imagery).addTo(map);
 	return map;
 }
@@ -78,6 +79,21 @@ export function labelMarker(g: Polygon, text: string, detail: string, growth: st
 		keyboard: false,
 		// geoman must not snap drawn corners to label markers
 		...({ pmIgnore: true, snapIgnore: true } as object)
+	});
+}
+
+/** A numbered badge at a facet, for small read-only maps where full labels would collide. */
+export function numberMarker(g: Polygon, n: number, growth: string): L.Marker {
+	const [lon, lat] = labelPoint(g);
+	const el = document.createElement('div');
+	el.className = 'cp-map-num';
+	el.dataset.growth = growth;
+	el.setAttribute('aria-hidden', 'true');
+	el.textContent = String(n);
+	return L.marker([lat, lon], {
+		icon: L.divIcon({ className: 'cp-plain', html: el, iconSize: [26, 26], iconAnchor: [13, 13] }),
+		interactive: false,
+		keyboard: false
 	});
 }
 

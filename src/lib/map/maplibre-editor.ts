@@ -186,6 +186,7 @@ export async function createMapLibreEditor(opts: EditorMapOptions): Promise<Edit
 	let selectId: string | null = null;
 	let liveFrame = 0;
 	const labels = new Map<string, Marker>();
+	const labelShapes = new Map<string, Polygon>();
 	const segmentMarkers: Marker[] = [];
 	let facetsNow: readonly PlanFacet[] = [];
 
@@ -254,6 +255,30 @@ export async function createMapLibreEditor(opts: EditorMapOptions): Promise<Edit
 			'circle-stroke-color': '#c0693f',
 			'circle-stroke-width': 3
 		}
+	});
+
+	/** Labels shrink with their facet on screen, so small facets stay readable, not buried. */
+	function sizeLabel(id: string) {
+		const g = labelShapes.get(id);
+		const el = labels.get(id)?.getElement();
+		if (!g || !el) return;
+		let minX = Infinity,
+			maxX = -Infinity,
+			minY = Infinity,
+			maxY = -Infinity;
+		for (const c of g.coordinates[0]) {
+			const p = map.project(c as [number, number]);
+			minX = Math.min(minX, p.x);
+			maxX = Math.max(maxX, p.x);
+			minY = Math.min(minY, p.y);
+			maxY = Math.max(maxY, p.y);
+		}
+		const w = maxX - minX;
+		const h = maxY - minY;
+		el.dataset.size = w < 48 || h < 24 ? 'hidden' : w < 110 || h < 56 ? 'small' : 'full';
+	}
+	map.on('zoomend', () => {
+		for (const id of labels.keys()) sizeLabel(id);
 	});
 
 	function emptyFc(): FeatureCollection {
@@ -566,11 +591,14 @@ export async function createMapLibreEditor(opts: EditorMapOptions): Promise<Edit
 				const el = m.getElement();
 				el.dataset.growth = l.growth;
 				el.replaceChildren(textEl('strong', l.text), textEl('span', l.detail));
+				labelShapes.set(l.id, l.geometry);
+				sizeLabel(l.id);
 			}
 			for (const [id, m] of labels)
 				if (!seen.has(id)) {
 					m.remove();
 					labels.delete(id);
+					labelShapes.delete(id);
 				}
 		},
 		select(id) {
