@@ -74,6 +74,8 @@ export interface MapTestHandle {
 	/** Fits the view to [west, south, east, north]; resolves when the map has settled. */
 	fitBounds(bbox: [number, number, number, number], paddingPx?: number): Promise<void>;
 	zoom(): number;
+	/** ms since navigation start when the map had drawn its first view (for the benchmark). */
+	readyAt: number;
 }
 
 declare global {

@@ -32,6 +32,10 @@ export async function createLeafletEditor(opts: EditorMapOptions): Promise<Edito
 	await loadGeoman();
 	const { container, imagery, events, readOnly } = opts;
 	const map = createBaseMap(container, imagery, { center: opts.center, zoom: 20.5 });
+	// Leaflet has drawn its first view once the imagery tiles in sight have loaded.
+	map.eachLayer((l) => {
+		if (l instanceof L.TileLayer) l.once('load', () => (handle.readyAt = performance.now()));
+	});
 	const pm = (map as any).pm;
 	pm.setGlobalOptions({
 		snappable: true,
@@ -215,7 +219,8 @@ export async function createLeafletEditor(opts: EditorMapOptions): Promise<Edito
 				requestAnimationFrame(() => resolve());
 			});
 		},
-		zoom: () => map.getZoom()
+		zoom: () => map.getZoom(),
+		readyAt: 0
 	};
 	window.__clearpitchMap = handle;
 	return api;

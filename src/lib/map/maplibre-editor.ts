@@ -170,8 +170,12 @@ export async function createMapLibreEditor(opts: EditorMapOptions): Promise<Edit
 	});
 	map.touchZoomRotate.disableRotation();
 	map.keyboard.disableRotation();
+	let readyAt = 0;
 	await new Promise<void>((resolve, reject) => {
-		map.once('load', () => resolve());
+		map.once('load', () => {
+			readyAt = performance.now();
+			resolve();
+		});
 		map.once('error', (e) => {
 			if (!map.loaded()) console.warn('map error before load', e.error);
 		});
@@ -750,7 +754,8 @@ export async function createMapLibreEditor(opts: EditorMapOptions): Promise<Edit
 				map.triggerRepaint();
 			});
 		},
-		zoom: () => map.getZoom()
+		zoom: () => map.getZoom(),
+		readyAt
 	};
 	window.__clearpitchMap = handle;
 	return api;
