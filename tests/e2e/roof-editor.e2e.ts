@@ -161,10 +161,32 @@ describe('tracing a house in the MapLibre editor', () => {
 		});
 	});
 
-	it('prices the plan from the rates as it is edited', async () => {
+	it('prices the plan from the rates as it is edited, and saves the estimate', async () => {
 		await expect
 			.poll(() => page.getByTestId('price-total').innerText(), { timeout: 10_000 })
 			.toMatch(/^\$[\d,]+$/);
+		await page.getByRole('button', { name: 'Save estimate' }).click();
+		const link = page.getByRole('link', { name: 'Open the saved estimate' });
+		await link.waitFor();
+		const href = (await link.getAttribute('href'))!;
+		expect(href).toMatch(/^\/estimates\/[0-9a-f-]{36}$/);
+		const est = await page.request.get(`${server.url}/api${href}`);
+		expect(est.status()).toBe(200);
+		// the saved estimate points at the saved roof plan version
+		const plan = await latestPlan(page, siteId);
+		expect(JSON.stringify(await est.json())).toContain(plan.id);
+	});
+
+	it('shows areas in m² when asked, converted exactly (NIST: 1 ft² = 0.09290304 m²)', async () => {
+		const num = async () =>
+			Number((await page.getByTestId('total-sloped').innerText()).replace(/[^\d.]/g, ''));
+		const ft2 = await num();
+		await page.getByRole('button', { name: 'm²' }).click();
+		expect(await page.getByTestId('total-sloped').innerText()).toMatch(/m²$/);
+		// ft² is shown whole, m² to 0.1: allow the display rounding of both
+		expect(Math.abs((await num()) - ft2 * 0.09290304)).toBeLessThan(0.1);
+		await page.getByRole('button', { name: 'ft²' }).click();
+		expect(await page.getByTestId('total-sloped').innerText()).toMatch(/ft²$/);
 	});
 
 	it('moves one corner to a new true position and saves a version 2 that matches its geometry', async () => {
@@ -274,6 +296,45 @@ describe('tracing a house in the MapLibre editor', () => {
 		await expect.poll(() => page.getByText('Version 1, read-only.').count()).toBe(1);
 		expect(await page.getByTestId('save-plan').count()).toBe(0);
 		expect(await page.getByLabel('Pitch of Facet 1').isDisabled()).toBe(true);
+	});
+});
+
+describe('drawing from the keyboard', () => {
+	it('places corners with Space at the cross, finishes with Enter, and Escape cancels', async () => {
+		// h05: a standing-seam metal gable; its south slope is a plain rectangle.
+		const f = facetsOf('h05')[0];
+		const siteId = await siteOf(page, 'h05');
+		await openEditor(page, siteId, 'maplibre');
+		await page.locator('body').focus();
+		await page.keyboard.press('n');
+		await expect.poll(() => page.getByRole('button', { name: /Finish/ }).count()).toBe(1);
+		const eps = 1e-7;
+		for (const [lon, lat] of f.geometry.coordinates[0].slice(0, -1)) {
+			// bring the corner under the cross (as the arrow keys would), then Space
+			await page.evaluate((b) => window.__clearpitchMap!.fitBounds(b, 0), [
+				lon - eps,
+				lat - eps,
+				lon + eps,
+				lat + eps
+			] as [number, number, number, number]);
+			await page.keyboard.press('Space');
+		}
+		await page.keyboard.press('Enter');
+		await expect.poll(() => page.locator('tbody tr[data-facet-row]').count()).toBe(1);
+		await page.getByLabel('Pitch of Facet 1').selectOption(String(f.properties.pitch));
+		const shown = Number(
+			(await page.getByTestId('total-sloped').innerText()).replace(/[^\d.]/g, '')
+		);
+		expect(rel(shown, f.properties.slopedAreaFt2)).toBeLessThan(0.005);
+
+		// Escape drops a facet half drawn
+		await page.locator('body').focus();
+		await page.keyboard.press('n');
+		await page.keyboard.press('Space');
+		await page.keyboard.press('Space');
+		await page.keyboard.press('Escape');
+		await expect.poll(() => page.getByTestId('draw-facet').count()).toBe(1);
+		expect(await page.locator('tbody tr[data-facet-row]').count()).toBe(1);
 	});
 });
 
