@@ -55,8 +55,8 @@ export const toLatLngs = (g: Polygon): L.LatLngExpression[] =>
 
 export function facetStyle(growth: PlanFacet['growth'], selected = false): L.PathOptions {
 	return {
-		color: selected ? '#f0b08c' : '#fbfaf7',
-		weight: selected ? 3 : 2,
+		color: selected ? '#ffb37a' : '#fbfaf7',
+		weight: selected ? 4 : 2,
 		fillColor: GROWTH_COLOURS[growth],
 		fillOpacity: selected ? 0.5 : 0.38
 	};

@@ -48,7 +48,7 @@ const DRAW_STYLES = [
 		type: 'line',
 		filter: ['any', ['==', '$type', 'LineString'], ['==', '$type', 'Polygon']],
 		layout: { 'line-cap': 'round', 'line-join': 'round' },
-		paint: { 'line-color': '#1b2229', 'line-width': ['case', ACTIVE, 6, 4], 'line-opacity': 0.55 }
+		paint: { 'line-color': '#1b2229', 'line-width': ['case', ACTIVE, 7, 4], 'line-opacity': 0.6 }
 	},
 	{
 		id: 'cp-outline',
@@ -56,8 +56,8 @@ const DRAW_STYLES = [
 		filter: ['any', ['==', '$type', 'LineString'], ['==', '$type', 'Polygon']],
 		layout: { 'line-cap': 'round', 'line-join': 'round' },
 		paint: {
-			'line-color': ['case', ACTIVE, '#f0b08c', '#fbfaf7'],
-			'line-width': ['case', ACTIVE, 3, 2]
+			'line-color': ['case', ACTIVE, '#ffb37a', '#fbfaf7'],
+			'line-width': ['case', ACTIVE, 4, 2]
 		}
 	},
 	{
