@@ -56,6 +56,7 @@ const ring = z
 	.min(4, { error: 'polygon ring needs at least 4 positions (3 corners and the closing position)' })
 	.max(MAX_VERTICES + 1, { error: `polygon may have at most ${MAX_VERTICES} vertices` })
 	.superRefine((r, ctx) => {
+		if (ctx.issues.length > 0) return;
 		const a = r[0];
 		const b = r[r.length - 1];
 		if (a[0] !== b[0] || a[1] !== b[1]) {
@@ -117,6 +118,8 @@ export const facetSchema = strict('facet', {
 		)
 		.optional()
 }).superRefine((f, ctx) => {
+	// Zod still runs refinements after non-fatal issues (an empty ring, say): count only a sound one.
+	if (ctx.issues.length > 0) return;
 	const segments = f.polygon.coordinates[0].length - 1;
 	if (f.edges && f.edges.length !== segments) {
 		ctx.addIssue({

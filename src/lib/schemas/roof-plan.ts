@@ -181,6 +181,8 @@ export const planFacetSchema = z
 		}
 	)
 	.superRefine((f, ctx) => {
+		// Zod still runs refinements after non-fatal issues; the geometry checks need a sound shape.
+		if (ctx.issues.length > 0) return;
 		for (const p of facetGeometryProblems(f.geometry as Polygon)) {
 			ctx.addIssue({ code: 'custom', path: p.path, message: p.message });
 		}
