@@ -301,9 +301,9 @@ describe('tracing a house in the MapLibre editor', () => {
 
 describe('drawing from the keyboard', () => {
 	it('places corners with Space at the cross, finishes with Enter, and Escape cancels', async () => {
-		// h05: a standing-seam metal gable; its south slope is a plain rectangle.
-		const f = facetsOf('h05')[0];
-		const siteId = await siteOf(page, 'h05');
+		// h08: an asymmetric wood-shake gable; its east slope is a plain rectangle.
+		const f = facetsOf('h08')[0];
+		const siteId = await siteOf(page, 'h08');
 		await openEditor(page, siteId, 'maplibre');
 		await page.locator('body').focus();
 		await page.keyboard.press('n');

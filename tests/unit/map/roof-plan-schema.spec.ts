@@ -161,6 +161,8 @@ describe('savePlanSchema', () => {
 			},
 			/exactly one ring/
 		],
+		['no ring', { type: 'Polygon', coordinates: [] }, /exactly one ring/],
+		['an empty ring', { type: 'Polygon', coordinates: [[]] }, /at least 3 corners/],
 		['a point for a polygon', { type: 'Point', coordinates: [lon0, lat0] }, /"Polygon"/],
 		[
 			'a facet of 0.2 m²',
