@@ -5,6 +5,7 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import { benchApi } from './api';
+import { benchEditor, editorTable } from './editor';
 import { benchModel } from './model';
 
 const MODEL_TARGET = 20_000;
@@ -24,6 +25,10 @@ const api = await benchApi();
 const medianRatio = api.estimates.medianMs / api.health.medianMs;
 const p99Ratio = api.estimates.p99Ms / api.health.p99Ms;
 
+console.log('Editor: live totals, snapping, bundle sizes, time to first map…');
+const editor = await benchEditor({ browser: true });
+const editorMd = editorTable(editor);
+
 const ok = (pass: boolean) => (pass ? 'met' : '**missed**');
 const modelOk = model.estimatesPerSec >= MODEL_TARGET;
 const ratioOk = medianRatio <= RATIO_TARGET;
@@ -42,8 +47,8 @@ const setting =
 	`same ${fmt(api.bodyBytes / 1024, 1)} KB body and API token for both, built server on PGlite; ` +
 	`${os.cpus().length} × ${os.cpus()[0]?.model.trim() ?? 'CPU'}, Node ${process.version}, load average ${fmt(loadBefore, 1)} → ${fmt(os.loadavg()[0], 1)}, ${new Date().toISOString().slice(0, 10)}.`;
 
-const md = `# Benchmarks\n\n\`npm run bench\` (after \`npx vite build\`).\n\n${table}\n\n${setting}\n`;
-console.log('\n' + table + '\n\n' + setting);
+const md = `# Benchmarks\n\n\`npm run bench\` (after \`npx vite build\`).\n\n${table}\n\n${setting}\n\n## Roof-plan editor\n\n${editorMd}\n`;
+console.log('\n' + table + '\n\n' + setting + '\n\n' + editorMd);
 fs.writeFileSync(new URL('./results.md', import.meta.url), md);
 console.log('\nWritten to bench/results.md');
 if (!modelOk || !ratioOk) process.exitCode = 1;
