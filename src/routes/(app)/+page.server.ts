@@ -4,5 +4,6 @@ import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
 	const user = requireUser(event);
-	return { summary: await todaySummary(user.companyId) };
+	// Crew see jobs, not the office's pipeline.
+	return { summary: user.role === 'crew' ? null : await todaySummary(user.companyId) };
 };
