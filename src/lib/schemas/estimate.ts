@@ -47,46 +47,84 @@ const strict = <S extends z.core.$ZodLooseShape>(name: string, shape: S) =>
 
 const LON = { field: 'longitude', min: -180, max: 180 };
 const LAT = { field: 'latitude', min: -90, max: 90 };
+const COORDINATE_TYPE = 'a finite number (GeoJSON order is [lon, lat])';
+const POSITION_TYPE = 'each position must be [lon, lat]';
+const ALTITUDE_TYPE = 'altitude must be a finite number';
+
 const coordinate = (c: typeof LON) =>
 	z
-		.number({ error: required(c.field, 'a finite number (GeoJSON order is [lon, lat])') })
-		.meta({ minimum: c.min, maximum: c.max });
-const position = z.tuple(
+		.number({ error: required(c.field, COORDINATE_TYPE) })
+		.min(c.min, { error: `${c.field} must be at least ${c.min}` })
+		.max(c.max, { error: `${c.field} must be at most ${c.max}` });
+
+/**
+ * One GeoJSON position, declared. It is what the OpenAPI document shows for a ring's items and
+ * the reference the one-pass ring check below is tested against; the ring does not run it.
+ */
+export const positionSchema = z.tuple(
 	[coordinate(LON), coordinate(LAT)],
-	z.number({ error: 'altitude must be a finite number' }),
-	{
-		error: 'each position must be [lon, lat]'
-	}
+	z.number({ error: ALTITUDE_TYPE }),
+	{ error: POSITION_TYPE }
 );
+
+type Ctx = z.core.$RefinementCtx<unknown[]>;
+const isFiniteNumber = (v: unknown): v is number => typeof v === 'number' && Number.isFinite(v);
+
+function checkCoordinate(v: unknown, c: typeof LON, i: number, k: number, ctx: Ctx) {
+	if (!isFiniteNumber(v)) {
+		const message =
+			v === undefined ? `${c.field} is required` : `${c.field} must be ${COORDINATE_TYPE}`;
+		ctx.addIssue({ code: 'custom', path: [i, k], message });
+	} else if (v < c.min || v > c.max) {
+		const message = `${c.field} must be ${v < c.min ? `at least ${c.min}` : `at most ${c.max}`}`;
+		ctx.addIssue({ code: 'custom', path: [i, k], message });
+	}
+}
+
+/**
+ * The positions of a ring in one pass, with positionSchema's messages and paths. Zod's tuple
+ * copies every position and costs most of a 30-facet body's validation; this reads them in place.
+ */
+function checkPositions(r: unknown[], ctx: Ctx) {
+	for (let i = 0; i < r.length; i++) {
+		const p = r[i];
+		if (!Array.isArray(p)) {
+			ctx.addIssue({ code: 'custom', path: [i], message: POSITION_TYPE });
+			continue;
+		}
+		checkCoordinate(p[0], LON, i, 0, ctx);
+		checkCoordinate(p[1], LAT, i, 1, ctx);
+		for (let k = 2; k < p.length; k++) {
+			if (!isFiniteNumber(p[k]))
+				ctx.addIssue({ code: 'custom', path: [i, k], message: ALTITUDE_TYPE });
+		}
+	}
+}
+
+const positionJsonSchema = (() => {
+	const { $schema: _drop, ...rest } = z.toJSONSchema(positionSchema, { target: 'draft-2020-12' });
+	return rest;
+})();
+
 const ring = z
-	.array(position, { error: 'a polygon ring must be an array of [lon, lat] positions' })
+	.array(z.unknown(), { error: 'a polygon ring must be an array of [lon, lat] positions' })
+	.superRefine(checkPositions)
 	.min(4, { error: 'polygon ring needs at least 4 positions (3 corners and the closing position)' })
 	.max(MAX_VERTICES + 1, { error: `polygon may have at most ${MAX_VERTICES} vertices` })
 	.superRefine((r, ctx) => {
 		if (ctx.issues.length > 0) return;
-		// Ranges are checked here in one pass: per-number checks cost a third of the body's
-		// validation on a 30-facet roof.
-		const outOfRange = (v: number, c: typeof LON, i: number, k: number) =>
-			ctx.addIssue({
-				code: 'custom',
-				path: [i, k],
-				message: `${c.field} must be ${v < c.min ? `at least ${c.min}` : `at most ${c.max}`}`
-			});
-		for (let i = 0; i < r.length; i++) {
-			const [lon, lat] = r[i];
-			if (lon < LON.min || lon > LON.max) outOfRange(lon, LON, i, 0);
-			if (lat < LAT.min || lat > LAT.max) outOfRange(lat, LAT, i, 1);
-		}
-		if (ctx.issues.length > 0) return;
-		const a = r[0];
-		const b = r[r.length - 1];
+		const a = r[0] as number[];
+		const b = r[r.length - 1] as number[];
 		if (a[0] !== b[0] || a[1] !== b[1]) {
 			ctx.addIssue({
 				code: 'custom',
 				message: 'polygon ring is not closed: the last position must repeat the first'
 			});
 		}
-	});
+	})
+	.meta({ items: positionJsonSchema }) as unknown as z.ZodType<Position[], unknown[]>;
+
+type Position = [number, number, ...number[]];
 
 export const polygonSchema = strict('polygon (a GeoJSON Polygon)', {
 	type: z.literal('Polygon', { error: 'polygon type must be "Polygon"' }),
