@@ -43,7 +43,8 @@ const table = [
 ].join('\n');
 
 const setting =
-	`${api.connections} connections, ${api.secondsEach} s per endpoint in alternating rounds after a 3 s warm-up, ` +
+	`${api.connections} connections, ${api.secondsEach} s per endpoint in ${api.rounds} alternating rounds after a 3 s warm-up, ` +
+	`${api.pricingThreads ? `${api.pricingThreads} pricing threads` : 'pricing on the main thread'}, ` +
 	`same ${fmt(api.bodyBytes / 1024, 1)} KB body and API token for both, built server on PGlite; ` +
 	`${os.cpus().length} × ${os.cpus()[0]?.model.trim() ?? 'CPU'}, Node ${process.version}, load average ${fmt(loadBefore, 1)} → ${fmt(os.loadavg()[0], 1)}, ${new Date().toISOString().slice(0, 10)}.`;
 

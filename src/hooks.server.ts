@@ -9,12 +9,19 @@ import { sequence } from '@sveltejs/kit/hooks';
 import { rolesFor } from '$lib/roles';
 import { closeDb, getDb } from '$lib/server/db';
 import { DataDirLockedError } from '$lib/server/db/lock';
+import { ConfigError } from '$lib/server/env';
 import { resolveCaller } from '$lib/server/auth/session';
+import { startPricing, stopPricing } from '$lib/server/pricing/pool';
 
 export const init: ServerInit = async () => {
 	try {
+		await startPricing();
 		await getDb();
 	} catch (e) {
+		if (e instanceof ConfigError) {
+			console.error(`\nClearpitch cannot start: ${e.message}\n`);
+			process.exit(78);
+		}
 		if (e instanceof DataDirLockedError) {
 			console.error(`\nClearpitch cannot start: ${e.message}\n`);
 			process.exit(75);
@@ -22,6 +29,7 @@ export const init: ServerInit = async () => {
 		throw e;
 	}
 	process.once('sveltekit:shutdown', () => {
+		void stopPricing();
 		void closeDb();
 	});
 };

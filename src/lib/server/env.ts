@@ -1,4 +1,10 @@
+import os from 'node:os';
 import path from 'node:path';
+
+/** A setting in the environment that Clearpitch cannot run with. */
+export class ConfigError extends Error {
+	override name = 'ConfigError';
+}
 
 /**
  * The one place that reads the environment. It reads `process.env` rather than `$env/*`
@@ -16,6 +22,24 @@ export const env = {
 	},
 	get tilesDir(): string {
 		return path.resolve(process.env.CLEARPITCH_TILES_DIR || './geodata/tiles');
+	},
+	/**
+	 * Threads that price estimates beside the main thread: by default one per core (piscina's
+	 * own default minimum), at most 8; on one core, and when set to 0, pricing runs in place.
+	 */
+	get pricingThreads(): number {
+		const set = process.env.CLEARPITCH_PRICING_THREADS;
+		if (set !== undefined && set !== '') {
+			const n = Number(set);
+			if (!Number.isInteger(n) || n < 0 || n > 64) {
+				throw new ConfigError(
+					`CLEARPITCH_PRICING_THREADS must be a whole number from 0 to 64 (got "${set}")`
+				);
+			}
+			return n;
+		}
+		const cores = os.availableParallelism();
+		return cores > 1 ? Math.min(8, cores) : 0;
 	},
 	/** Cookies are Secure unless explicitly turned off for plain-HTTP hosts other than localhost. */
 	get secureCookies(): boolean {

@@ -1,4 +1,5 @@
 import { ApiError } from './errors';
+import { emptyBodyRefusal, invalidJsonRefusal } from './refusal';
 
 /** Largest JSON body the API reads; a 30-facet roof plan is about 20 KB. */
 export const MAX_JSON_BYTES = 256 * 1024;
@@ -11,6 +12,20 @@ const JSON_TYPE = /^application\/(?:[\w.+-]+\+)?json\s*(?:;|$)/i;
  * anything that is not JSON.
  */
 export async function readJson(request: Request, limit = MAX_JSON_BYTES): Promise<unknown> {
+	const text = decodeBody(await readJsonBytes(request, limit));
+	if (text.trim() === '') throw ApiError.from(emptyBodyRefusal());
+	try {
+		return JSON.parse(text);
+	} catch (e) {
+		throw ApiError.from(invalidJsonRefusal(e));
+	}
+}
+
+/**
+ * The body's bytes, after readJson's 415 and 413 checks, for a caller that decodes and parses
+ * elsewhere (pricing does it on a worker thread).
+ */
+export async function readJsonBytes(request: Request, limit = MAX_JSON_BYTES): Promise<Uint8Array> {
 	const type = request.headers.get('content-type') ?? '';
 	if (!JSON_TYPE.test(type)) {
 		throw new ApiError(
@@ -18,24 +33,14 @@ export async function readJson(request: Request, limit = MAX_JSON_BYTES): Promis
 			`Send the body as JSON with "Content-Type: application/json"${type ? ` (got "${type}")` : ''}.`
 		);
 	}
-	const text = await readCapped(request, limit);
-	if (text.trim() === '') {
-		throw new ApiError(400, 'The request body is empty; send a JSON object.', [
-			{ path: '', message: 'body is empty' }
-		]);
-	}
-	try {
-		return JSON.parse(text);
-	} catch (e) {
-		const why = e instanceof SyntaxError ? e.message : 'not JSON';
-		throw new ApiError(400, `The request body is not valid JSON: ${why}`, [
-			{ path: '', message: `invalid JSON: ${why}` }
-		]);
-	}
+	return readCapped(request, limit);
 }
 
-async function readCapped(request: Request, limit: number): Promise<string> {
-	if (!request.body) return '';
+const decodeBody = (bytes: Uint8Array): string =>
+	new TextDecoder('utf-8', { fatal: false }).decode(bytes);
+
+async function readCapped(request: Request, limit: number): Promise<Uint8Array> {
+	if (!request.body) return new Uint8Array(0);
 	const reader = request.body.getReader();
 	const chunks: Uint8Array[] = [];
 	let size = 0;
@@ -54,7 +59,7 @@ async function readCapped(request: Request, limit: number): Promise<string> {
 	if (size > limit) {
 		throw new ApiError(413, `The request body is larger than ${Math.round(limit / 1024)} KB.`);
 	}
-	return new TextDecoder('utf-8', { fatal: false }).decode(concat(chunks, size));
+	return concat(chunks, size);
 }
 
 function concat(chunks: Uint8Array[], size: number): Uint8Array {

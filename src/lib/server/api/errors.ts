@@ -1,11 +1,8 @@
 import { json } from '@sveltejs/kit';
 import type { z } from 'zod';
+import { invalidRefusal, issuesOf, type ApiIssue, type Refusal } from './refusal';
 
-/** One bad field: `path` is dotted (facets.0.pitch); '' means the body as a whole. */
-export interface ApiIssue {
-	path: string;
-	message: string;
-}
+export { issuesOf, toPath, type ApiIssue } from './refusal';
 
 /** Every 4xx this API sends has this body. */
 export interface ApiErrorBody {
@@ -23,26 +20,14 @@ export class ApiError extends Error {
 		super(message);
 		this.name = 'ApiError';
 	}
-}
 
-export const toPath = (path: ReadonlyArray<PropertyKey>): string => path.map(String).join('.');
-
-/** zod (or model) issues to the API's issue list, one entry per bad field. */
-export function issuesOf(
-	issues: ReadonlyArray<{ path: ReadonlyArray<PropertyKey>; message: string }>
-): ApiIssue[] {
-	return issues.map((i) => ({ path: toPath(i.path), message: i.message }));
+	static from(r: Refusal): ApiError {
+		return new ApiError(r.status, r.message, r.issues);
+	}
 }
 
 export function invalid(issues: ApiIssue[], what = 'request'): ApiError {
-	const names = [...new Set(issues.map((i) => i.path || 'body'))];
-	const shown =
-		names.slice(0, 5).join(', ') + (names.length > 5 ? ` and ${names.length - 5} more` : '');
-	return new ApiError(
-		400,
-		`The ${what} has ${issues.length === 1 ? 'a problem' : `${issues.length} problems`}: ${shown}.`,
-		issues
-	);
+	return ApiError.from(invalidRefusal(issues, what));
 }
 
 export function zodInvalid(error: z.ZodError, what?: string): ApiError {

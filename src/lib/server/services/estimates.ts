@@ -7,6 +7,8 @@ import { ApiError, invalid, issuesOf } from '../api/errors';
 import { getDb } from '../db';
 import { customers, estimateStatusEnum, estimates, sites, users } from '../db/schema';
 import { latestRateCard, NoRateCardError, rateCardById, type StoredRateCard } from './rate-cards';
+import type { CardRef } from '../pricing/price-request';
+import { runPricing } from '../pricing/pool';
 
 export const ESTIMATE_STATUSES = estimateStatusEnum.enumValues;
 export type EstimateStatus = (typeof ESTIMATE_STATUSES)[number];
@@ -80,7 +82,8 @@ async function assertSite(companyId: string, siteId: string | undefined) {
 /**
  * Prices a validated request with the company's latest card (or the one it names). With
  * `save`, stores it as a draft for the site, frozen: its input, result and card version never
- * change afterwards. Refusals throw ApiError and write nothing.
+ * change afterwards. Refusals throw ApiError and write nothing. The seed prices this way;
+ * the API sends the body's text to priceEstimateText.
  */
 export async function priceEstimate(
 	caller: Caller,
@@ -91,28 +94,92 @@ export async function priceEstimate(
 	const input = toEstimateInput(body);
 	const outcome = tryEstimate(input, card.card);
 	if (!outcome.ok) throw invalid(issuesOf(outcome.issues), 'roof plan');
-	const priced: PricedEstimate = {
-		...outcome.value,
-		rateCard: { id: card.id, version: card.version }
-	};
-	if (!body.save) return priced;
+	const rateCard = { id: card.id, version: card.version };
+	if (!body.save) return { ...outcome.value, rateCard };
+	return storeDraft(caller, {
+		siteId: body.siteId!,
+		roofPlanId: body.roofPlanId ?? null,
+		input,
+		result: outcome.value,
+		rateCard
+	});
+}
+
+async function storeDraft(
+	caller: Caller,
+	d: {
+		siteId: string;
+		roofPlanId: string | null;
+		input: EstimateInput;
+		result: EstimateResult;
+		rateCard: { id: string; version: number };
+	}
+): Promise<PricedEstimate> {
 	const db = await getDb();
 	const [row] = await db
 		.insert(estimates)
 		.values({
 			companyId: caller.companyId,
-			siteId: body.siteId!,
-			roofPlanId: body.roofPlanId ?? null,
+			siteId: d.siteId,
+			roofPlanId: d.roofPlanId,
 			status: 'draft',
-			rateCardId: card.id,
-			rateCardVersion: card.version,
-			input,
-			result: outcome.value,
-			totalCents: outcome.value.price.totalCents,
+			rateCardId: d.rateCard.id,
+			rateCardVersion: d.rateCard.version,
+			input: d.input,
+			result: d.result,
+			totalCents: d.result.price.totalCents,
 			createdBy: caller.id
 		})
 		.returning({ id: estimates.id, status: estimates.status });
-	return { ...priced, estimate: row };
+	return { ...d.result, rateCard: d.rateCard, estimate: row };
+}
+
+const cardRefs = new WeakMap<StoredRateCard, CardRef>();
+
+function cardRef(card: StoredRateCard): CardRef {
+	let ref = cardRefs.get(card);
+	if (!ref) {
+		ref = { id: card.id, version: card.version, json: JSON.stringify(card.card) };
+		cardRefs.set(card, ref);
+	}
+	return ref;
+}
+
+async function latestOrNull(companyId: string): Promise<StoredRateCard | null> {
+	try {
+		return await latestRateCard(companyId);
+	} catch (e) {
+		if (e instanceof NoRateCardError) return null;
+		throw e;
+	}
+}
+
+/**
+ * POST /api/estimates from the body as sent: parsing, validation and pricing run on a pricing
+ * thread (see pricing/pool.ts), the card lookup and the store here. Answers the priced
+ * estimate as UTF-8 JSON, or the saved draft; refusals throw ApiError and write nothing.
+ */
+export async function priceEstimateBody(
+	caller: Caller,
+	body: Uint8Array
+): Promise<{ saved: false; json: Uint8Array } | { saved: true; priced: PricedEstimate }> {
+	const latest = await latestOrNull(caller.companyId);
+	let outcome = await runPricing({ body, card: latest && cardRef(latest) });
+	if (outcome.kind === 'needs-card') {
+		const card = await cardFor(caller.companyId, outcome.rateCardId ?? undefined);
+		outcome = await runPricing({ body, card: cardRef(card) });
+	}
+	switch (outcome.kind) {
+		case 'refused':
+			throw ApiError.from(outcome.refusal);
+		case 'needs-card':
+			throw new Error('the pricing thread asked twice for a rate card');
+		case 'priced':
+			return { saved: false, json: outcome.json };
+		case 'save':
+			await assertSite(caller.companyId, outcome.siteId);
+			return { saved: true, priced: await storeDraft(caller, outcome) };
+	}
 }
 
 export type EstimateFilters = {

@@ -1,0 +1,55 @@
+/**
+ * API refusals as plain data. Pricing runs on a worker thread, and an Error subclass does not
+ * survive the trip back; a Refusal does, and ApiError.from() turns it into the answer.
+ */
+
+/** One bad field: `path` is dotted (facets.0.pitch); '' means the body as a whole. */
+export interface ApiIssue {
+	path: string;
+	message: string;
+}
+
+export interface Refusal {
+	status: number;
+	message: string;
+	issues?: ApiIssue[];
+}
+
+export const toPath = (path: ReadonlyArray<PropertyKey>): string => path.map(String).join('.');
+
+/** zod (or model) issues to the API's issue list, one entry per bad field. */
+export function issuesOf(
+	issues: ReadonlyArray<{ path: ReadonlyArray<PropertyKey>; message: string }>
+): ApiIssue[] {
+	return issues.map((i) => ({ path: toPath(i.path), message: i.message }));
+}
+
+/** 400 whose message names the bad fields (the first five) and whose issues list them all. */
+export function invalidRefusal(issues: ApiIssue[], what = 'request'): Refusal {
+	const names = [...new Set(issues.map((i) => i.path || 'body'))];
+	const shown =
+		names.slice(0, 5).join(', ') + (names.length > 5 ? ` and ${names.length - 5} more` : '');
+	return {
+		status: 400,
+		message: `The ${what} has ${issues.length === 1 ? 'a problem' : `${issues.length} problems`}: ${shown}.`,
+		issues
+	};
+}
+
+export function emptyBodyRefusal(): Refusal {
+	return {
+		status: 400,
+		message: 'The request body is empty; send a JSON object.',
+		issues: [{ path: '', message: 'body is empty' }]
+	};
+}
+
+/** 400 for a body JSON.parse refused. */
+export function invalidJsonRefusal(e: unknown): Refusal {
+	const why = e instanceof SyntaxError ? e.message : 'not JSON';
+	return {
+		status: 400,
+		message: `The request body is not valid JSON: ${why}`,
+		issues: [{ path: '', message: `invalid JSON: ${why}` }]
+	};
+}

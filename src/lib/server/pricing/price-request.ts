@@ -1,0 +1,106 @@
+import { tryEstimate } from '../../estimating';
+import type { RateCard } from '../../estimating/rate-card';
+import type { EstimateInput, EstimateResult } from '../../estimating/types';
+import { estimateRequestSchema, toEstimateInput } from '../../schemas/estimate';
+import {
+	emptyBodyRefusal,
+	invalidJsonRefusal,
+	invalidRefusal,
+	issuesOf,
+	type Refusal
+} from '../api/refusal';
+
+/**
+ * The CPU-bound part of POST /api/estimates, from body bytes to answer bytes: decode, parse,
+ * validate, price, serialize. No database and no framework, so it runs on a worker thread (pool.ts) or,
+ * where there is none, in place — with the same answers either way.
+ */
+
+/** A rate-card version as it crosses to a worker: the card as JSON text, which copies cheaply. */
+export interface CardRef {
+	id: string;
+	version: number;
+	json: string;
+}
+
+export interface PriceTask {
+	/** The request body as sent (UTF-8 JSON, not yet checked). */
+	body: Uint8Array;
+	/** The company's latest card, or null when it has none. */
+	card: CardRef | null;
+}
+
+export type PriceOutcome =
+	| { kind: 'refused'; refusal: Refusal }
+	/** The body names another card than the one sent (or there was none): look it up, run again. */
+	| { kind: 'needs-card'; rateCardId: string | null }
+	/** Priced, not to be saved: the answer, UTF-8 JSON. */
+	| { kind: 'priced'; json: Uint8Array }
+	/** Priced, to be saved as a draft for the site: what the store needs. */
+	| {
+			kind: 'save';
+			siteId: string;
+			roofPlanId: string | null;
+			input: EstimateInput;
+			result: EstimateResult;
+			rateCard: { id: string; version: number };
+	  };
+
+// Cards are immutable per id (an edit makes a new version), so a parsed card never goes stale.
+const parsedCards = new Map<string, RateCard>();
+const MAX_CACHED_CARDS = 64;
+
+function cardOf(ref: CardRef): RateCard {
+	let card = parsedCards.get(ref.id);
+	if (!card) {
+		if (parsedCards.size >= MAX_CACHED_CARDS) parsedCards.clear();
+		card = JSON.parse(ref.json) as RateCard;
+		parsedCards.set(ref.id, card);
+	}
+	return card;
+}
+
+const decoder = new TextDecoder('utf-8', { fatal: false });
+const encoder = new TextEncoder();
+
+export function priceRequest(task: PriceTask): PriceOutcome {
+	const text = decoder.decode(task.body);
+	if (text.trim() === '') return { kind: 'refused', refusal: emptyBodyRefusal() };
+	let body: unknown;
+	try {
+		body = JSON.parse(text);
+	} catch (e) {
+		return { kind: 'refused', refusal: invalidJsonRefusal(e) };
+	}
+	const parsed = estimateRequestSchema.safeParse(body);
+	if (!parsed.success) {
+		return { kind: 'refused', refusal: invalidRefusal(issuesOf(parsed.error.issues)) };
+	}
+	const request = parsed.data;
+	if (request.save && !request.siteId) {
+		return {
+			kind: 'refused',
+			refusal: invalidRefusal([{ path: 'siteId', message: 'siteId is required when save is true' }])
+		};
+	}
+	const wanted = request.rateCardId ?? task.card?.id ?? null;
+	if (!task.card || wanted !== task.card.id) return { kind: 'needs-card', rateCardId: wanted };
+
+	const input = toEstimateInput(request);
+	const outcome = tryEstimate(input, cardOf(task.card));
+	if (!outcome.ok) {
+		return { kind: 'refused', refusal: invalidRefusal(issuesOf(outcome.issues), 'roof plan') };
+	}
+	const rateCard = { id: task.card.id, version: task.card.version };
+	if (request.save) {
+		return {
+			kind: 'save',
+			siteId: request.siteId!,
+			roofPlanId: request.roofPlanId ?? null,
+			input,
+			result: outcome.value,
+			rateCard
+		};
+	}
+	return { kind: 'priced', json: encoder.encode(JSON.stringify({ ...outcome.value, rateCard })) };
+}
