@@ -202,3 +202,28 @@ export function facetsOf(houseId: string): FacetFeature[] {
 export function sceneBounds(): [number, number, number, number] {
 	return loadScene().bbox;
 }
+
+/** A house's facets as a roof plan lists them (the shape /api/roof-plans takes). */
+export function planFacetsOf(houseId: string) {
+	return facetsOf(houseId).map(({ properties: p, geometry }) => ({
+		id: p.facetId,
+		label: p.label,
+		geometry,
+		pitch: p.pitch,
+		material: p.material,
+		growth: p.growth,
+		access: p.access,
+		stories: p.stories,
+		edges: p.edges
+	}));
+}
+
+/** The same facets as the estimating model and /api/estimates take them: the outline is `polygon`. */
+export function estimateFacetsOf(houseId: string) {
+	return planFacetsOf(houseId).map(({ geometry, stories, ...f }) => {
+		if (stories !== 1 && stories !== 2 && stories !== 3) {
+			throw new Error(`scene facet ${f.id} has ${stories} stories; the model takes 1 to 3`);
+		}
+		return { ...f, polygon: geometry, stories: stories as 1 | 2 | 3 };
+	});
+}

@@ -18,15 +18,11 @@ export const init: ServerInit = async () => {
 		await startPricing();
 		await getDb();
 	} catch (e) {
-		if (e instanceof ConfigError) {
-			console.error(`\nClearpitch cannot start: ${e.message}\n`);
-			process.exit(78);
-		}
-		if (e instanceof DataDirLockedError) {
-			console.error(`\nClearpitch cannot start: ${e.message}\n`);
-			process.exit(75);
-		}
-		throw e;
+		// sysexits.h: EX_CONFIG for a bad setting, EX_TEMPFAIL while another server holds the data.
+		const code = e instanceof ConfigError ? 78 : e instanceof DataDirLockedError ? 75 : null;
+		if (code === null) throw e;
+		console.error(`\nClearpitch cannot start: ${(e as Error).message}\n`);
+		process.exit(code);
 	}
 	process.once('sveltekit:shutdown', () => {
 		void stopPricing();

@@ -2,14 +2,8 @@
 // line items and status actions, in Chromium against the built server.
 import type { BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { openBrowser } from '../helpers/browser';
-import {
-	DEMO,
-	DEMO_PASSWORD,
-	seededDataDir,
-	startServer,
-	type TestServer
-} from '../helpers/server';
+import { openBrowser, signInAs } from '../helpers/browser';
+import { DEMO, seededDataDir, startServer, type TestServer } from '../helpers/server';
 import { prepareDataDir, sceneRequest, type Prepared } from '../integration/api-helpers';
 
 let server: TestServer;
@@ -39,11 +33,7 @@ beforeAll(async () => {
 	}
 	ctx = await openBrowser({ width: 1280, height: 900 });
 	page = ctx.pages()[0] ?? (await ctx.newPage());
-	await page.goto(`${server.url}/sign-in`);
-	await page.getByLabel('E-mail').fill(DEMO.estimator);
-	await page.getByLabel('Password').fill(DEMO_PASSWORD);
-	await page.getByRole('button', { name: 'Sign in' }).click();
-	await page.waitForURL(`${server.url}/`);
+	await signInAs(page, server.url, DEMO.estimator);
 });
 afterAll(async () => {
 	await ctx?.close();

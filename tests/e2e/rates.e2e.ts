@@ -2,14 +2,8 @@
 // and a bad figure gets a field error and makes no version.
 import type { BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { openBrowser } from '../helpers/browser';
-import {
-	DEMO,
-	DEMO_PASSWORD,
-	seededDataDir,
-	startServer,
-	type TestServer
-} from '../helpers/server';
+import { openBrowser, signInAs } from '../helpers/browser';
+import { DEMO, seededDataDir, startServer, type TestServer } from '../helpers/server';
 
 let server: TestServer;
 let ctx: BrowserContext;
@@ -21,11 +15,7 @@ beforeAll(async () => {
 	server = await startServer(seededDataDir('e2e-rates'));
 	ctx = await openBrowser({ width: 1280, height: 900 });
 	page = ctx.pages()[0] ?? (await ctx.newPage());
-	await page.goto(`${server.url}/sign-in`);
-	await page.getByLabel('E-mail').fill(DEMO.owner);
-	await page.getByLabel('Password').fill(DEMO_PASSWORD);
-	await page.getByRole('button', { name: 'Sign in' }).click();
-	await page.waitForURL(`${server.url}/`);
+	await signInAs(page, server.url, DEMO.owner);
 });
 afterAll(async () => {
 	await ctx?.close();

@@ -4,14 +4,8 @@
 import type { BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { facetsOf, house, type FacetFeature } from '../../geodata/scene';
-import { openBrowser } from '../helpers/browser';
-import {
-	DEMO,
-	DEMO_PASSWORD,
-	seededDataDir,
-	startServer,
-	type TestServer
-} from '../helpers/server';
+import { openBrowser, signInAs } from '../helpers/browser';
+import { DEMO, seededDataDir, startServer, type TestServer } from '../helpers/server';
 import { FT2_PER_M2, Geodesic, geodesicAreaM2 } from '../unit/map/reference';
 
 let server: TestServer;
@@ -22,22 +16,12 @@ beforeAll(async () => {
 	server = await startServer(seededDataDir('e2e-roof'));
 	ctx = await openBrowser({ width: 1280, height: 900 });
 	page = ctx.pages()[0] ?? (await ctx.newPage());
-	await signIn(page, DEMO.estimator);
+	await signInAs(page, server.url, DEMO.estimator);
 });
 afterAll(async () => {
 	await ctx?.close();
 	await server?.stop();
 });
-
-async function signIn(p: Page, email: string) {
-	await p.goto(`${server.url}/sign-in`);
-	await p.getByLabel('E-mail').fill(email);
-	await p.getByLabel('Password').fill(DEMO_PASSWORD);
-	await Promise.all([
-		p.waitForURL((u) => !u.pathname.startsWith('/sign-in')),
-		p.getByRole('button', { name: 'Sign in' }).click()
-	]);
-}
 
 async function siteOf(p: Page, houseId: string): Promise<string> {
 	const r = await p.request.get(`${server.url}/api/sites`);
@@ -373,7 +357,7 @@ describe('the Leaflet fallback', () => {
 		const noGl = await openBrowser({ width: 1280, height: 900, webgl: false });
 		try {
 			const p = noGl.pages()[0] ?? (await noGl.newPage());
-			await signIn(p, DEMO.sales);
+			await signInAs(p, server.url, DEMO.sales);
 			const f = facetsOf('h02')[0];
 			const siteId = await siteOf(p, 'h02');
 			await openEditor(p, siteId, 'leaflet');

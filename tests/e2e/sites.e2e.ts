@@ -2,15 +2,9 @@
 // site page's read-only roof plan (at phone width too).
 import type { BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { facetsOf, house } from '../../geodata/scene';
-import { openBrowser } from '../helpers/browser';
-import {
-	DEMO,
-	DEMO_PASSWORD,
-	seededDataDir,
-	startServer,
-	type TestServer
-} from '../helpers/server';
+import { house, planFacetsOf } from '../../geodata/scene';
+import { openBrowser, signInAs } from '../helpers/browser';
+import { DEMO, seededDataDir, startServer, type TestServer } from '../helpers/server';
 
 let server: TestServer;
 let ctx: BrowserContext;
@@ -22,13 +16,7 @@ beforeAll(async () => {
 	server = await startServer(seededDataDir('e2e-sites'));
 	ctx = await openBrowser({ width: 1280, height: 900 });
 	page = ctx.pages()[0] ?? (await ctx.newPage());
-	await page.goto(`${server.url}/sign-in`);
-	await page.getByLabel('E-mail').fill(DEMO.estimator);
-	await page.getByLabel('Password').fill(DEMO_PASSWORD);
-	await Promise.all([
-		page.waitForURL(`${server.url}/`),
-		page.getByRole('button', { name: 'Sign in' }).click()
-	]);
+	await signInAs(page, server.url, DEMO.estimator);
 	sites = (await (await page.request.get(`${server.url}/api/sites`)).json()).sites;
 });
 afterAll(async () => {
@@ -143,17 +131,7 @@ describe('a site page with a roof plan', () => {
 	it('shows the latest plan read-only over the imagery with its totals, also at 390 px', async () => {
 		// h08 (asymmetric gable) is one of the houses the demo leaves unmeasured.
 		const site = sites.find((s) => s.sceneHouseId === 'h08')!;
-		const facets = facetsOf('h08').map((f) => ({
-			id: f.properties.facetId,
-			label: f.properties.label,
-			geometry: f.geometry,
-			pitch: f.properties.pitch,
-			material: f.properties.material,
-			growth: f.properties.growth,
-			access: f.properties.access,
-			stories: f.properties.stories,
-			edges: f.properties.edges
-		}));
+		const facets = planFacetsOf('h08');
 		const saved = await page.request.post(`${server.url}/api/roof-plans`, {
 			data: { siteId: site.id, facets }
 		});

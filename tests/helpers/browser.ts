@@ -1,7 +1,8 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { chromium, type BrowserContext } from 'playwright-core';
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import { DEMO_PASSWORD } from './server';
 
 export const CHROMIUM = process.env.CHROMIUM_PATH || '/usr/bin/chromium';
 
@@ -40,4 +41,20 @@ export async function openBrowser(
 
 export function tmpRoot() {
 	return path.resolve(os.tmpdir());
+}
+
+/** Signs in through the sign-in form and waits for the landing page (Today). */
+export async function signInAs(
+	page: Page,
+	baseUrl: string,
+	email: string,
+	password = DEMO_PASSWORD
+) {
+	await page.goto(`${baseUrl}/sign-in`);
+	await page.getByLabel('E-mail').fill(email);
+	await page.getByLabel('Password').fill(password);
+	await Promise.all([
+		page.waitForURL(`${baseUrl}/`),
+		page.getByRole('button', { name: 'Sign in' }).click()
+	]);
 }

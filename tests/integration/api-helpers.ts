@@ -3,7 +3,7 @@
 import { PGlite } from '@electric-sql/pglite';
 import { hashApiToken, newApiToken } from '../../src/lib/server/auth/tokens';
 import type { EstimateRequest } from '../../src/lib/schemas/estimate';
-import { facetsOf } from '../../geodata/scene';
+import { estimateFacetsOf } from '../../geodata/scene';
 
 export type SeededSite = { id: string; address: string; customer: string; houseId: string | null };
 
@@ -75,16 +75,6 @@ export function countRows(dir: string, table: 'estimates' | 'rate_cards'): Promi
 /** A scene house's true roof plan as an API request body. */
 export function sceneRequest(houseId: string): EstimateRequest {
 	return {
-		facets: facetsOf(houseId).map(({ properties: p, geometry }) => ({
-			id: p.facetId,
-			label: p.label,
-			polygon: geometry,
-			pitch: p.pitch,
-			material: p.material,
-			growth: p.growth,
-			access: p.access,
-			stories: p.stories as 1 | 2 | 3,
-			edges: p.edges
-		}))
+		facets: estimateFacetsOf(houseId)
 	};
 }

@@ -2,7 +2,7 @@
 // names the facet and nothing stored; versions; roles; other companies' sites.
 import fc from 'fast-check';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { facetsOf, house } from '../../geodata/scene';
+import { house, planFacetsOf } from '../../geodata/scene';
 import { closeDb, getDb } from '../../src/lib/server/db';
 import { companies, customers, roofPlans, sites } from '../../src/lib/server/db/schema';
 import { sessionFor } from '../helpers/http';
@@ -91,17 +91,7 @@ const versionCount = async (id = siteId) =>
 	((await call('GET', `/api/sites/${id}/roof-plans`, estimator)).body.versions as unknown[]).length;
 
 // h04: hip roof with a hip-ended garage, seven clay-tile facets (geodata/scene.geojson).
-const scene = facetsOf('h04').map((f) => ({
-	id: f.properties.facetId,
-	label: f.properties.label,
-	geometry: f.geometry,
-	pitch: f.properties.pitch,
-	material: f.properties.material,
-	growth: f.properties.growth,
-	access: f.properties.access,
-	stories: f.properties.stories,
-	edges: f.properties.edges
-}));
+const scene = planFacetsOf('h04');
 const plan = (facets: unknown[] = scene, extra: object = {}) => ({ siteId, facets, ...extra });
 const lon0 = -74.46;
 const lat0 = 35.52;

@@ -1,21 +1,11 @@
 // The roof-plan body schema (src/lib/schemas/roof-plan.ts): what a save accepts and refuses.
 import { describe, expect, it } from 'vitest';
 import { planIssues, savePlanSchema, PLAN_LIMITS } from '../../../src/lib/schemas/roof-plan';
-import { facetsOf } from '../../../geodata/scene';
+import { planFacetsOf } from '../../../geodata/scene';
 import { rectangleM } from './reference';
 
 const SITE = '6e49f00b-b3c3-47fd-b252-cc6710c45a27';
-const good = facetsOf('h03').map((f) => ({
-	id: f.properties.facetId,
-	label: f.properties.label,
-	geometry: f.geometry,
-	pitch: f.properties.pitch,
-	material: f.properties.material,
-	growth: f.properties.growth,
-	access: f.properties.access,
-	stories: f.properties.stories,
-	edges: f.properties.edges
-}));
+const good = planFacetsOf('h03');
 
 function issuesFor(facets: unknown[], extra: object = {}) {
 	const body = { siteId: SITE, facets, ...extra };

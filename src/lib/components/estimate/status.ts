@@ -1,19 +1,9 @@
-import type { EstimateStatus } from '$lib/server/services/estimates';
+import { ESTIMATE_STATUSES, type EstimateStatus } from '$lib/estimate-status';
 
 export type { EstimateStatus };
 
 /** In the order an estimate normally moves, then the two ends. */
-export const STATUS_ORDER: EstimateStatus[] = [
-	'draft',
-	'ready',
-	'sent',
-	'accepted',
-	'scheduled',
-	'done',
-	'paid',
-	'declined',
-	'expired'
-];
+export const STATUS_ORDER: readonly EstimateStatus[] = ESTIMATE_STATUSES;
 
 export const STATUS_LABELS: Record<EstimateStatus, string> = {
 	draft: 'Draft',

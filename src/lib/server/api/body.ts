@@ -1,5 +1,5 @@
 import { ApiError } from './errors';
-import { emptyBodyRefusal, invalidJsonRefusal } from './refusal';
+import { parseJsonBody } from './refusal';
 
 /** Largest JSON body the API reads; a 30-facet roof plan is about 20 KB. */
 export const MAX_JSON_BYTES = 256 * 1024;
@@ -12,13 +12,9 @@ const JSON_TYPE = /^application\/(?:[\w.+-]+\+)?json\s*(?:;|$)/i;
  * anything that is not JSON.
  */
 export async function readJson(request: Request, limit = MAX_JSON_BYTES): Promise<unknown> {
-	const text = decodeBody(await readJsonBytes(request, limit));
-	if (text.trim() === '') throw ApiError.from(emptyBodyRefusal());
-	try {
-		return JSON.parse(text);
-	} catch (e) {
-		throw ApiError.from(invalidJsonRefusal(e));
-	}
+	const parsed = parseJsonBody(await readJsonBytes(request, limit));
+	if (!parsed.ok) throw ApiError.from(parsed.refusal);
+	return parsed.value;
 }
 
 /**
@@ -35,9 +31,6 @@ export async function readJsonBytes(request: Request, limit = MAX_JSON_BYTES): P
 	}
 	return readCapped(request, limit);
 }
-
-const decodeBody = (bytes: Uint8Array): string =>
-	new TextDecoder('utf-8', { fatal: false }).decode(bytes);
 
 async function readCapped(request: Request, limit: number): Promise<Uint8Array> {
 	if (!request.body) return new Uint8Array(0);

@@ -36,20 +36,34 @@ export function invalidRefusal(issues: ApiIssue[], what = 'request'): Refusal {
 	};
 }
 
-export function emptyBodyRefusal(): Refusal {
-	return {
-		status: 400,
-		message: 'The request body is empty; send a JSON object.',
-		issues: [{ path: '', message: 'body is empty' }]
-	};
-}
+const decoder = new TextDecoder('utf-8', { fatal: false });
 
-/** 400 for a body JSON.parse refused. */
-export function invalidJsonRefusal(e: unknown): Refusal {
-	const why = e instanceof SyntaxError ? e.message : 'not JSON';
-	return {
-		status: 400,
-		message: `The request body is not valid JSON: ${why}`,
-		issues: [{ path: '', message: `invalid JSON: ${why}` }]
-	};
+/** A JSON body's bytes to its value, or the 400 for an empty body or one that is not JSON. */
+export function parseJsonBody(
+	bytes: Uint8Array
+): { ok: true; value: unknown } | { ok: false; refusal: Refusal } {
+	const text = decoder.decode(bytes);
+	if (text.trim() === '') {
+		return {
+			ok: false,
+			refusal: {
+				status: 400,
+				message: 'The request body is empty; send a JSON object.',
+				issues: [{ path: '', message: 'body is empty' }]
+			}
+		};
+	}
+	try {
+		return { ok: true, value: JSON.parse(text) };
+	} catch (e) {
+		const why = e instanceof SyntaxError ? e.message : 'not JSON';
+		return {
+			ok: false,
+			refusal: {
+				status: 400,
+				message: `The request body is not valid JSON: ${why}`,
+				issues: [{ path: '', message: `invalid JSON: ${why}` }]
+			}
+		};
+	}
 }

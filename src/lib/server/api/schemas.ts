@@ -6,7 +6,7 @@ import {
 	type EstimateResult
 } from '../../estimating/types';
 import { rateCardSchema } from '../../schemas/rate-card';
-import { ESTIMATE_STATUSES } from '../services/estimates';
+import { ESTIMATE_STATUSES } from '../../estimate-status';
 
 /**
  * Query, PATCH and response schemas of the estimates API. The request body schema lives in
@@ -196,6 +196,9 @@ export const estimateListSchema = z.object({
 	page: z.int(),
 	pageSize: z.int()
 });
+
+/** GET /api/estimates as the client receives it (dates are ISO strings). */
+export type EstimateList = z.infer<typeof estimateListSchema>;
 
 export const estimateDetailSchema = z.object({
 	id: z.uuid(),

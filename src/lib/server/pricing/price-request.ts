@@ -2,13 +2,7 @@ import { tryEstimate } from '../../estimating';
 import type { RateCard } from '../../estimating/rate-card';
 import type { EstimateInput, EstimateResult } from '../../estimating/types';
 import { estimateRequestSchema, toEstimateInput } from '../../schemas/estimate';
-import {
-	emptyBodyRefusal,
-	invalidJsonRefusal,
-	invalidRefusal,
-	issuesOf,
-	type Refusal
-} from '../api/refusal';
+import { invalidRefusal, issuesOf, parseJsonBody, type Refusal } from '../api/refusal';
 
 /**
  * The CPU-bound part of POST /api/estimates, from body bytes to answer bytes: decode, parse,
@@ -60,19 +54,12 @@ function cardOf(ref: CardRef): RateCard {
 	return card;
 }
 
-const decoder = new TextDecoder('utf-8', { fatal: false });
 const encoder = new TextEncoder();
 
 export function priceRequest(task: PriceTask): PriceOutcome {
-	const text = decoder.decode(task.body);
-	if (text.trim() === '') return { kind: 'refused', refusal: emptyBodyRefusal() };
-	let body: unknown;
-	try {
-		body = JSON.parse(text);
-	} catch (e) {
-		return { kind: 'refused', refusal: invalidJsonRefusal(e) };
-	}
-	const parsed = estimateRequestSchema.safeParse(body);
+	const body = parseJsonBody(task.body);
+	if (!body.ok) return { kind: 'refused', refusal: body.refusal };
+	const parsed = estimateRequestSchema.safeParse(body.value);
 	if (!parsed.success) {
 		return { kind: 'refused', refusal: invalidRefusal(issuesOf(parsed.error.issues)) };
 	}

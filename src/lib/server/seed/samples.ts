@@ -1,11 +1,10 @@
 import { and, count, eq } from 'drizzle-orm';
-import { facetsOf } from '../../../../geodata/scene';
+import { estimateFacetsOf, planFacetsOf } from '../../../../geodata/scene';
 import type { Role } from '$lib/roles';
 import { savePlanSchema } from '$lib/schemas/roof-plan';
-import { estimateRequestSchema } from '$lib/schemas/estimate';
 import { getDb } from '../db';
 import { estimates, roofPlans, sites, users } from '../db/schema';
-import { changeStatus, priceEstimate, type EstimateStatus } from '../services/estimates';
+import { changeStatus, priceEstimateBody, type EstimateStatus } from '../services/estimates';
 import { savePlan } from '../services/roof-plans';
 
 /**
@@ -47,17 +46,7 @@ export async function seedSamples(
 			.where(eq(roofPlans.siteId, site.id));
 		if (plansThere > 0) continue;
 
-		const facets = facetsOf(sample.houseId).map((f) => ({
-			id: f.properties.facetId,
-			label: f.properties.label,
-			geometry: f.geometry,
-			pitch: f.properties.pitch,
-			material: f.properties.material,
-			growth: f.properties.growth,
-			access: f.properties.access,
-			stories: f.properties.stories,
-			edges: f.properties.edges
-		}));
+		const facets = planFacetsOf(sample.houseId);
 		const plan = savePlanSchema.parse({
 			siteId: site.id,
 			facets,
@@ -68,16 +57,18 @@ export async function seedSamples(
 		if (!saved.ok) throw new Error(`Sample roof plan for ${sample.houseId}: ${saved.reason}`);
 		made.plans += 1;
 
-		const request = estimateRequestSchema.parse({
+		// Priced the way the API prices: the same checks, the same card, the same store.
+		const body = {
 			siteId: site.id,
 			roofPlanId: saved.plan.id,
 			save: true,
-			facets: facets.map(({ geometry, ...f }) => ({ ...f, polygon: geometry }))
-		});
-		const priced = await priceEstimate(caller, request);
+			facets: estimateFacetsOf(sample.houseId)
+		};
+		const done = await priceEstimateBody(caller, new TextEncoder().encode(JSON.stringify(body)));
+		if (!done.saved) throw new Error(`the sample estimate for ${sample.houseId} was not saved`);
 		made.estimates += 1;
 		for (const to of PATH.slice(1, PATH.indexOf(sample.status) + 1)) {
-			await changeStatus(caller, priced.estimate!.id, to);
+			await changeStatus(caller, done.priced.estimate!.id, to);
 		}
 	}
 	return made;

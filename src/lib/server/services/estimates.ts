@@ -1,17 +1,15 @@
 import { and, count, desc, eq, ilike, or, sql, type SQL } from 'drizzle-orm';
 import type { Role } from '../../roles';
-import { tryEstimate } from '../../estimating';
 import type { EstimateInput, EstimateResult } from '../../estimating/types';
-import { toEstimateInput, type EstimateRequest } from '../../schemas/estimate';
-import { ApiError, invalid, issuesOf } from '../api/errors';
+import { ApiError, invalid } from '../api/errors';
 import { getDb } from '../db';
-import { customers, estimateStatusEnum, estimates, sites, users } from '../db/schema';
+import type { EstimateStatus } from '../../estimate-status';
+import { customers, estimates, sites, users } from '../db/schema';
 import { latestRateCard, NoRateCardError, rateCardById, type StoredRateCard } from './rate-cards';
-import type { CardRef } from '../pricing/price-request';
+import type { CardRef, PriceOutcome } from '../pricing/price-request';
 import { runPricing } from '../pricing/pool';
 
-export const ESTIMATE_STATUSES = estimateStatusEnum.enumValues;
-export type EstimateStatus = (typeof ESTIMATE_STATUSES)[number];
+export type { EstimateStatus };
 
 /**
  * The moves an estimate can make and who may make them. The owner may make any of them; the
@@ -66,10 +64,7 @@ async function cardFor(companyId: string, rateCardId?: string): Promise<StoredRa
 	return card;
 }
 
-async function assertSite(companyId: string, siteId: string | undefined) {
-	if (!siteId) {
-		throw invalid([{ path: 'siteId', message: 'siteId is required when save is true' }]);
-	}
+async function assertSite(companyId: string, siteId: string) {
 	const db = await getDb();
 	const [site] = await db
 		.select({ id: sites.id })
@@ -79,41 +74,10 @@ async function assertSite(companyId: string, siteId: string | undefined) {
 	if (!site) throw invalid([{ path: 'siteId', message: 'siteId is not one of your sites' }]);
 }
 
-/**
- * Prices a validated request with the company's latest card (or the one it names). With
- * `save`, stores it as a draft for the site, frozen: its input, result and card version never
- * change afterwards. Refusals throw ApiError and write nothing. The seed prices this way;
- * the API sends the body's text to priceEstimateText.
- */
-export async function priceEstimate(
-	caller: Caller,
-	body: EstimateRequest
-): Promise<PricedEstimate> {
-	if (body.save) await assertSite(caller.companyId, body.siteId);
-	const card = await cardFor(caller.companyId, body.rateCardId);
-	const input = toEstimateInput(body);
-	const outcome = tryEstimate(input, card.card);
-	if (!outcome.ok) throw invalid(issuesOf(outcome.issues), 'roof plan');
-	const rateCard = { id: card.id, version: card.version };
-	if (!body.save) return { ...outcome.value, rateCard };
-	return storeDraft(caller, {
-		siteId: body.siteId!,
-		roofPlanId: body.roofPlanId ?? null,
-		input,
-		result: outcome.value,
-		rateCard
-	});
-}
-
+/** Stores a priced request as a draft for its site, frozen with its input, result and card. */
 async function storeDraft(
 	caller: Caller,
-	d: {
-		siteId: string;
-		roofPlanId: string | null;
-		input: EstimateInput;
-		result: EstimateResult;
-		rateCard: { id: string; version: number };
-	}
+	d: Extract<PriceOutcome, { kind: 'save' }>
 ): Promise<PricedEstimate> {
 	const db = await getDb();
 	const [row] = await db
@@ -157,7 +121,8 @@ async function latestOrNull(companyId: string): Promise<StoredRateCard | null> {
 /**
  * POST /api/estimates from the body as sent: parsing, validation and pricing run on a pricing
  * thread (see pricing/pool.ts), the card lookup and the store here. Answers the priced
- * estimate as UTF-8 JSON, or the saved draft; refusals throw ApiError and write nothing.
+ * estimate as UTF-8 JSON, or the saved draft; refusals throw ApiError and write nothing. The
+ * demo seed prices its samples through here too.
  */
 export async function priceEstimateBody(
 	caller: Caller,

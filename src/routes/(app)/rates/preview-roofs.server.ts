@@ -1,4 +1,4 @@
-import { facetsOf, house } from '../../../../geodata/scene';
+import { estimateFacetsOf, house } from '../../../../geodata/scene';
 import type { EstimateInput, FacetInput } from '$lib/estimating/types';
 
 export interface PreviewRoof {
@@ -17,17 +17,7 @@ export function previewRoofs(): PreviewRoof[] {
 	for (const id of PREVIEW_HOUSES) {
 		const h = house(id);
 		if (!h) continue;
-		const facets: FacetInput[] = facetsOf(id).map(({ properties: p, geometry }) => ({
-			id: p.facetId,
-			label: p.label,
-			polygon: geometry,
-			pitch: p.pitch,
-			material: p.material,
-			growth: p.growth,
-			access: p.access,
-			stories: Math.min(3, Math.max(1, p.stories)) as 1 | 2 | 3,
-			edges: p.edges
-		}));
+		const facets: FacetInput[] = estimateFacetsOf(id);
 		out.push({
 			houseId: id,
 			address: h.properties.address,

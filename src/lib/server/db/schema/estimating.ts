@@ -9,6 +9,7 @@ import {
 	uuid,
 	boolean
 } from 'drizzle-orm/pg-core';
+import { ESTIMATE_STATUSES } from '../../../estimate-status';
 import { id, timestamps } from './columns';
 import { companies } from './company';
 import { users } from './auth';
@@ -32,17 +33,7 @@ export const rateCards = pgTable(
 	(t) => [unique('rate_cards_company_version').on(t.companyId, t.version)]
 );
 
-export const estimateStatusEnum = pgEnum('estimate_status', [
-	'draft',
-	'ready',
-	'sent',
-	'accepted',
-	'scheduled',
-	'done',
-	'paid',
-	'declined',
-	'expired'
-]);
+export const estimateStatusEnum = pgEnum('estimate_status', ESTIMATE_STATUSES);
 
 export const estimates = pgTable(
 	'estimates',
