@@ -78,6 +78,17 @@ export async function startServer(
 	};
 }
 
+/** A server that did not come up; `proc` has exited by the time this is thrown. */
+export class ServerStartError extends Error {
+	constructor(
+		message: string,
+		readonly proc: ChildProcess
+	) {
+		super(message);
+		this.name = 'ServerStartError';
+	}
+}
+
 /** Resolves once the child has exited (at once if it already has). */
 function exited(proc: ChildProcess): Promise<void> {
 	if (proc.exitCode !== null || proc.signalCode !== null) return Promise.resolve();
@@ -99,13 +110,17 @@ async function waitUntilHealthy(
 	const died = exited(proc).then(() => 'exited' as const);
 	for (;;) {
 		if (proc.exitCode !== null || proc.signalCode !== null) {
-			throw new Error(
-				`Server exited early (code ${proc.exitCode}, signal ${proc.signalCode}):\n${log()}`
+			throw new ServerStartError(
+				`Server exited early (code ${proc.exitCode}, signal ${proc.signalCode}):\n${log()}`,
+				proc
 			);
 		}
 		if (Date.now() >= deadline) {
 			await stop();
-			throw new Error(`Server did not answer ${url}/api/health within ${timeoutMs} ms:\n${log()}`);
+			throw new ServerStartError(
+				`Server did not answer ${url}/api/health within ${timeoutMs} ms:\n${log()}`,
+				proc
+			);
 		}
 		try {
 			const r = await fetch(`${url}/api/health`, { signal: AbortSignal.timeout(5_000) });

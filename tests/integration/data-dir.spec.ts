@@ -8,7 +8,13 @@ import { promisify } from 'node:util';
 import { PGlite } from '@electric-sql/pglite';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { signIn } from '../helpers/http';
-import { DEMO, seededDataDir, startServer, type TestServer } from '../helpers/server';
+import {
+	DEMO,
+	seededDataDir,
+	ServerStartError,
+	startServer,
+	type TestServer
+} from '../helpers/server';
 
 const run = promisify(execFile);
 const servers: TestServer[] = [];
@@ -121,6 +127,24 @@ describe('embedded PGlite data directory', () => {
 				(e: Error & { stderr: string }) => e
 			);
 			expect(script?.stderr).toMatch(/in use by another process/);
+		});
+	});
+
+	describe('the start-up helper', () => {
+		it('throws at its deadline and leaves no server running', async () => {
+			const dir = path.resolve('tmp/data', `deadline-${process.pid}-${Date.now()}`);
+			const err = await startServer(dir, {}, { startTimeoutMs: 1 }).then(
+				(s) => {
+					servers.push(s);
+					return null;
+				},
+				(e: unknown) => e
+			);
+			expect(err).toBeInstanceOf(ServerStartError);
+			const e = err as ServerStartError;
+			expect(e.message).toMatch(/did not answer .*\/api\/health within 1 ms/);
+			// (The log in the message is checked above: the lock refusal is the server's own output.)
+			expect(e.proc.exitCode !== null || e.proc.signalCode !== null).toBe(true);
 		});
 	});
 
