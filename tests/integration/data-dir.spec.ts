@@ -160,12 +160,16 @@ describe('embedded PGlite data directory', () => {
 
 		// The reopening is the thing tested, so one server start runs inside the test: its
 		// timeout is the hook's, above the start-up helper's own deadline.
-		it('closes cleanly on SIGTERM and reopens the same directory', { timeout: 180_000 }, async () => {
-			await a.stop();
-			expect(a.proc.exitCode === 0 || a.proc.signalCode === 'SIGTERM').toBe(true);
-			const b = await startServer(dir);
-			servers.push(b);
-			expect((await signIn(b.url, DEMO.sales)).status).toBe(303);
-		});
+		it(
+			'closes cleanly on SIGTERM and reopens the same directory',
+			{ timeout: 180_000 },
+			async () => {
+				await a.stop();
+				expect(a.proc.exitCode === 0 || a.proc.signalCode === 'SIGTERM').toBe(true);
+				const b = await startServer(dir);
+				servers.push(b);
+				expect((await signIn(b.url, DEMO.sales)).status).toBe(303);
+			}
+		);
 	});
 });

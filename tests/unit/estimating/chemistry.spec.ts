@@ -59,11 +59,7 @@ describe('dilution by C1·V1 = C2·V2', () => {
 		// Source: docs/estimating-model.md §13 W9 (common practice: re-test each lot and mix from
 		// the measured strength; 4 × 100 ÷ 11 = 36.36, published to 0.1)
 		expect(Math.abs(stockVolume(4, 100, 11) - 36.4)).toBeLessThanOrEqual(0.05);
-		const { batches } = buildBatches(
-			[{ id: 'x', mixStrengthPct: 4, mixGal: 100 }],
-			11,
-			noExtras()
-		);
+		const { batches } = buildBatches([{ id: 'x', mixStrengthPct: 4, mixGal: 100 }], 11, noExtras());
 		expect(Math.abs(batches[0].stockGal - 36.4)).toBeLessThanOrEqual(0.05);
 		expect(Math.abs(batches[0].waterGal - 63.6)).toBeLessThanOrEqual(0.05);
 	});
