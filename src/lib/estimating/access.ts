@@ -1,7 +1,7 @@
 import type { AccessGrade, Material } from './types';
 
 /**
- * Common practice (DOMAIN.md §3.6, §5): clay and concrete tile and slate break underfoot and are
+ * Common practice (docs/estimating-model.md §5, §14): clay and concrete tile and slate break underfoot and are
  * not walked; work them from a ladder at the eave, a roof ladder or a lift. A safety rule, not a
  * rate, so it is not on the rate card.
  */
