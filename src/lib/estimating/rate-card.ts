@@ -144,7 +144,8 @@ export const DEFAULT_RATE_CARD: RateCard = {
 		}
 	},
 	growth: {
-		// demo defaults, from memory: price multipliers and strength steps as in docs/estimating-model.md §12
+		// demo defaults, from memory: price multipliers and strength steps as in
+		// docs/estimating-model.md §12
 		G0: { strengthStepPct: -1, applications: 1, priceMultiplier: 0.8, labourFactor: 0.9 },
 		G1: { strengthStepPct: 0, applications: 1, priceMultiplier: 1.0, labourFactor: 1.0 },
 		G2: { strengthStepPct: 1, applications: 1, priceMultiplier: 1.15, labourFactor: 1.15 },
