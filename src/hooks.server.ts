@@ -15,13 +15,17 @@ import { startPricing, stopPricing } from '$lib/server/pricing/pool';
 
 export const init: ServerInit = async () => {
 	try {
-		await startPricing();
+		// The data-directory lock first: a second server on a held directory stops here, before
+		// it has spawned a pricing thread that would only slow the server already running.
 		await getDb();
+		await startPricing();
 	} catch (e) {
 		// sysexits.h: EX_CONFIG for a bad setting, EX_TEMPFAIL while another server holds the data.
 		const code = e instanceof ConfigError ? 78 : e instanceof DataDirLockedError ? 75 : null;
 		if (code === null) throw e;
 		console.error(`\nClearpitch cannot start: ${(e as Error).message}\n`);
+		// The database may already be open (a bad pricing setting): close it, releasing the lock.
+		await closeDb().catch(() => {});
 		process.exit(code);
 	}
 	process.once('sveltekit:shutdown', () => {

@@ -47,26 +47,31 @@ async function openEditor(p: Page, siteId: string, kind: 'maplibre' | 'leaflet')
 const screen = (p: Page, lonLat: Pt) =>
 	p.evaluate((c) => window.__clearpitchMap!.project(c), lonLat);
 
+/** Fits the view to the facets; the handle's promise resolves once the map has settled. */
 async function fit(p: Page, facets: FacetFeature[], padding = 120) {
 	await p.evaluate(([b, pad]) => window.__clearpitchMap!.fitBounds(b, pad), [
 		bboxOf(facets),
 		padding
 	] as const);
-	await p.waitForTimeout(300);
 }
 
 /** Draws one facet by clicking its corners, as a person would, and finishes with Enter. */
 async function drawFacet(p: Page, ring: Pt[], offsetPx: (i: number) => Pt = () => [0, 0]) {
+	const rows = p.locator('tbody tr[data-facet-row]');
+	const before = await rows.count();
 	await p.getByTestId('draw-facet').click();
+	// In draw mode the toolbar offers Finish in place of Draw facet.
+	await p.getByRole('button', { name: /Finish/ }).waitFor();
 	for (let i = 0; i < ring.length; i++) {
 		const s = await screen(p, ring[i]);
 		const [dx, dy] = offsetPx(i);
 		await p.mouse.move(s.x + dx, s.y + dy, { steps: 2 });
 		await p.mouse.click(s.x + dx, s.y + dy);
-		await p.waitForTimeout(40);
 	}
 	await p.keyboard.press('Enter');
-	await p.waitForTimeout(150);
+	// The facet is committed: one more row in the table, and the editor is back to browsing.
+	await expect.poll(() => rows.count()).toBe(before + 1);
+	await p.getByTestId('draw-facet').waitFor();
 }
 
 async function latestPlan(p: Page, siteId: string) {
@@ -186,8 +191,14 @@ describe('tracing a house in the MapLibre editor', () => {
 		const to = Geodesic.WGS84.Direct(from[1], from[0], 90, 1.5);
 		const target: Pt = [to.lon2!, to.lat2!];
 
-		await page.locator('tbody tr[data-facet-row]').nth(0).locator('td').first().click();
+		const row0 = page.locator('tbody tr[data-facet-row]').nth(0);
+		// The table shows committed areas only: it changes when the dragged corner is committed.
+		const areaBefore = await row0.getByTestId('facet-sloped').innerText();
+		await row0.locator('td').first().click();
 		await page.getByRole('button', { name: 'Corners' }).click();
+		await expect
+			.poll(() => page.getByRole('button', { name: 'Corners' }).getAttribute('aria-pressed'))
+			.toBe('true');
 		const a = await screen(page, from);
 		const b = await screen(page, target);
 		await page.mouse.move(a.x, a.y);
@@ -195,7 +206,7 @@ describe('tracing a house in the MapLibre editor', () => {
 		await page.mouse.move((a.x + b.x) / 2, (a.y + b.y) / 2, { steps: 4 });
 		await page.mouse.move(b.x, b.y, { steps: 4 });
 		await page.mouse.up();
-		await page.waitForTimeout(200);
+		await expect.poll(() => row0.getByTestId('facet-sloped').innerText()).not.toBe(areaBefore);
 		await page.getByTestId('save-plan').click();
 		await expect
 			.poll(() => page.getByTestId('save-status').innerText())
@@ -209,7 +220,7 @@ describe('tracing a house in the MapLibre editor', () => {
 		const miss = Geodesic.WGS84.Inverse(moved[1], moved[0], target[1], target[0]).s12!;
 		expect(miss).toBeLessThan(0.08);
 		// …and the stored area is the area of the stored outline, computed independently with
-		// GeographicLib and the slope factor √(1+(rise/12)²) (DOMAIN.md §3.1).
+		// GeographicLib and the slope factor √(1+(rise/12)²) (docs/estimating-model.md §2).
 		const independent =
 			geodesicAreaM2({ type: 'Polygon', coordinates: [saved] }) *
 			FT2_PER_M2 *

@@ -34,10 +34,14 @@ export function seededDataDir(name: string): string {
 	return dir;
 }
 
-/** Starts the built server (`build/`) on a free port against `dataDir`. */
+/**
+ * Starts the built server (`build/`) on a free port against `dataDir` and waits until it
+ * answers. Throws, with the server's log, if it exits first or is not up by the deadline.
+ */
 export async function startServer(
 	dataDir: string,
-	extraEnv: Record<string, string> = {}
+	extraEnv: Record<string, string> = {},
+	opts: { startTimeoutMs?: number } = {}
 ): Promise<TestServer> {
 	if (!fs.existsSync('build/index.js')) throw new Error('Run `npm run build` before these tests.');
 	const port = await freePort();
@@ -56,31 +60,77 @@ export async function startServer(
 	proc.stdout!.on('data', (d) => (out += d));
 	proc.stderr!.on('data', (d) => (out += d));
 	const url = `http://localhost:${port}`;
-	const deadline = Date.now() + 60_000;
-	while (Date.now() < deadline) {
-		if (proc.exitCode !== null) throw new Error(`Server exited early:\n${out}`);
-		try {
-			const r = await fetch(`${url}/api/health`);
-			if (r.ok) break;
-		} catch {
-			/* not listening yet */
-		}
-		await new Promise((r) => setTimeout(r, 200));
-	}
+	const stop = () =>
+		new Promise<void>((resolve) => {
+			if (proc.exitCode !== null || proc.signalCode !== null) return resolve();
+			proc.once('exit', () => resolve());
+			proc.kill('SIGTERM');
+			setTimeout(() => proc.kill('SIGKILL'), 10_000).unref();
+		});
+	await waitUntilHealthy(url, proc, () => out, stop, opts.startTimeoutMs ?? 90_000);
 	return {
 		url,
 		port,
 		dataDir,
 		proc,
 		log: () => out,
-		stop: () =>
-			new Promise<void>((resolve) => {
-				if (proc.exitCode !== null) return resolve();
-				proc.once('exit', () => resolve());
-				proc.kill('SIGTERM');
-				setTimeout(() => proc.kill('SIGKILL'), 10_000).unref();
-			})
+		stop
 	};
+}
+
+/** A server that did not come up; `proc` has exited by the time this is thrown. */
+export class ServerStartError extends Error {
+	constructor(
+		message: string,
+		readonly proc: ChildProcess
+	) {
+		super(message);
+		this.name = 'ServerStartError';
+	}
+}
+
+/** Resolves once the child has exited (at once if it already has). */
+function exited(proc: ChildProcess): Promise<void> {
+	if (proc.exitCode !== null || proc.signalCode !== null) return Promise.resolve();
+	return new Promise((resolve) => proc.once('exit', () => resolve()));
+}
+
+/**
+ * Polls /api/health until it answers 200. Throws, with the server's output, when the server
+ * exits first or when the deadline passes (after stopping the server, so no process is left).
+ */
+async function waitUntilHealthy(
+	url: string,
+	proc: ChildProcess,
+	log: () => string,
+	stop: () => Promise<void>,
+	timeoutMs: number
+): Promise<void> {
+	const deadline = Date.now() + timeoutMs;
+	const died = exited(proc).then(() => 'exited' as const);
+	for (;;) {
+		if (proc.exitCode !== null || proc.signalCode !== null) {
+			throw new ServerStartError(
+				`Server exited early (code ${proc.exitCode}, signal ${proc.signalCode}):\n${log()}`,
+				proc
+			);
+		}
+		if (Date.now() >= deadline) {
+			await stop();
+			throw new ServerStartError(
+				`Server did not answer ${url}/api/health within ${timeoutMs} ms:\n${log()}`,
+				proc
+			);
+		}
+		try {
+			const r = await fetch(`${url}/api/health`, { signal: AbortSignal.timeout(5_000) });
+			if (r.ok) return;
+		} catch {
+			/* not listening yet */
+		}
+		// Poll again after 200 ms, or at once if the server exits meanwhile.
+		await Promise.race([died, new Promise((r) => setTimeout(r, 200))]);
+	}
 }
 
 export const DEMO_PASSWORD = 'pitch-demo-2026';

@@ -82,7 +82,8 @@ describe('/api/openapi.json', () => {
 		const live = await res.json();
 		const example = post.responses['200'].content['application/json'].example;
 		expect({ ...live, rateCard: null }).toEqual({ ...example, rateCard: null });
-		// DOMAIN.md §3.1 worked check: the example is the 40 × 30 ft gable at 6/12.
+		// docs/estimating-model.md §13 W1 (JLC slope factor): the example is the 40 × 30 ft gable
+		// at 6/12.
 		expect(live.facets[0].squares.toFixed(2)).toBe('13.42');
 	});
 
@@ -125,7 +126,8 @@ describe('/api/rate-cards', () => {
 		const { items } = await res.json();
 		expect(items).toHaveLength(1);
 		expect(items[0]).toMatchObject({ version: 1, isDefault: true });
-		// PRODUCT.md default rate card (demo defaults, from memory): asphalt $32 a square.
+		// docs/estimating-model.md §12 default rate card (demo defaults, from memory): asphalt $32
+		// a square.
 		expect(items[0].card.materials.asphalt_shingle.perSquareCents).toBe(3200);
 	});
 });

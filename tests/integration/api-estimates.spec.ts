@@ -132,34 +132,106 @@ describe('POST /api/estimates prices a roof plan', () => {
 		expect(r.status).toBe(200);
 		const body = estimatePricedSchema.parse(r.json);
 		const f = body.facets[0];
-		// Plan area against GeographicLib's ellipsoidal polygon area (DOMAIN.md §4: local-plane
-		// methods agree to ≤ 0.12 ppm; allow 10 ppm).
+		// Plan area against GeographicLib's ellipsoidal polygon area (C.F.F. Karney, "Algorithms
+		// for geodesics", J. Geodesy 2013; docs/estimating-model.md §1: the model agrees with it to
+		// well under 1 ppm on a roof; allow 10 ppm).
 		const truth = geographicLibAreaFt2(polygon);
 		expect(Math.abs(f.planAreaFt2 - truth) / truth).toBeLessThan(1e-5);
 		expect(truth).toBeCloseTo(1200, 1);
-		// JLC "Asphalt Shingles Field Guide" slope table: 6/12 → 1.118 (±0.001, DOMAIN.md §3.1).
+		// JLC "Asphalt Shingles Field Guide" slope table: 6/12 → 1.118 (published to ±0.001).
 		expect(Math.abs(f.pitchMultiplier - 1.118)).toBeLessThanOrEqual(0.001);
-		// DOMAIN.md §3.1 worked check (JLC): 1200 × 1.11803 = 1341.6 ft² = 13.42 squares.
+		// docs/estimating-model.md §13 W1 (JLC slope factor): 1200 × 1.11803 = 1341.6 ft² = 13.42
+		// squares (1 square = 100 ft² of roof surface, JLC field guide).
 		expect(f.slopedAreaFt2).toBeCloseTo(1341.6, 0);
 		expect(f.squares.toFixed(2)).toBe('13.42');
 		expect(body.totals.squares).toBe(f.squares);
 		expect(body.totals.planAreaFt2).toBe(f.planAreaFt2);
-		// Price from the demo card's own figures ($32/square, G1 ×1.0, ground ×1.0, 1 storey ×1.0).
-		expect(f.priceCents).toBe(
-			Math.round(f.squares * DEFAULT_RATE_CARD.materials.asphalt_shingle.perSquareCents)
+
+		// Everything below is worked out here from the rate card the API serves and the plan area
+		// GeographicLib gives, with the formulas of docs/estimating-model.md §2–§11 written out
+		// afresh: squares = area × √(1 + (6/12)²) ÷ 100, then the card's own figures.
+		const cards = rateCardListSchema.parse((await call('GET', '/api/rate-cards', owner())).json);
+		const card = cards.items.find((c) => c.version === body.rateCard.version)!.card;
+		const cents = (x: number) => Math.round(x); // positive amounts: halves up = away from zero
+		const pct = (amount: number, p: number) => cents((amount * p) / 100);
+		const sq = (truth * Math.sqrt(1 + (6 / 12) ** 2)) / 100;
+		expect(Math.abs(f.squares - sq) / sq).toBeLessThan(1e-5);
+		const mat = card.materials.asphalt_shingle;
+
+		// §8 facet price: squares × $/square × G1 × ground × 1 storey (6/12 is not over the steep
+		// threshold, so no steep multiplier).
+		expect(6).toBeLessThanOrEqual(card.steepPitch.thresholdRise);
+		const facetCents = cents(
+			sq *
+				mat.perSquareCents *
+				card.growth.G1.priceMultiplier *
+				card.access.ground.priceMultiplier *
+				card.stories['1'].priceMultiplier
 		);
+		expect(f.priceCents).toBe(facetCents);
+		// §8 job price: facet + trip + post-rinse per ft² of sloped area; over the minimum job here.
+		const postRinse = cents(sq * 100 * card.postRinseCentsPerFt2);
+		const subtotal = facetCents + card.tripChargeCents + postRinse;
+		expect(subtotal).toBeGreaterThan(card.minimumJobCents);
+		const total = subtotal + pct(subtotal, card.taxPct);
+		expect(body.price.subtotalCents).toBe(subtotal);
+		expect(body.price.minimumAdjustmentCents).toBe(0);
+		expect(body.price.preTaxCents).toBe(subtotal);
+		expect(body.price.totalCents).toBe(total);
 		const lines = body.price.lineItems.reduce((s, l) => s + l.amountCents, 0);
 		expect(lines).toBe(body.price.totalCents);
-		expect(body.price.lowCents).toBeLessThan(body.price.totalCents);
-		expect(body.price.highCents).toBeGreaterThan(body.price.totalCents);
-		// Dilution C1·V1 = C2·V2 (DOMAIN.md §3.3): stock = batch × target ÷ stock strength.
+		// §9 range (measured remotely) and deposit.
+		expect(body.price.measuredOnSite).toBe(false);
+		expect(body.price.lowCents).toBe(total - pct(total, card.range.remote.lowPct));
+		expect(body.price.highCents).toBe(total + pct(total, card.range.remote.highPct));
+		expect(body.price.depositCents).toBe(pct(total, card.depositPct));
+
+		// §6 chemistry: G1 on shingle mixes at the material's base strength plus the G1 step;
+		// mix = squares × coverage × applications, plus the waste allowance; stock by
+		// C1·V1 = C2·V2 from the card's stock strength; surfactant by dose per gallon.
+		const strength = mat.baseStrengthPct + card.growth.G1.strengthStepPct;
+		const applications = card.growth.G1.applications;
+		const mixGal =
+			sq * mat.coverageGalPerSquare * applications * (1 + card.chemistry.wastePct / 100);
+		const stockGal = (strength * mixGal) / card.chemistry.stockStrengthPct;
+		const surfOz = mixGal * card.chemistry.surfactantOzPerGal;
+		expect(f.mixGal).toBeCloseTo(sq * mat.coverageGalPerSquare * applications, 4);
 		const [batch] = body.chemistry.batches;
-		expect(batch.stockGal).toBeCloseTo((batch.mixGal * batch.strengthPct) / 12.5, 6);
-		expect(batch.surfactantOz).toBeCloseTo(batch.mixGal * 1, 6);
-		expect(f.mixGal).toBeCloseTo(f.squares * 1.5 * 1, 6);
-		expect(body.labour.hours).toBeGreaterThan(0);
-		expect(body.cost.totalCents).toBeGreaterThan(0);
-		expect(typeof body.marginPct).toBe('number');
+		expect(body.chemistry.batches).toHaveLength(1);
+		expect(batch.strengthPct).toBe(strength);
+		expect(batch.mixGal).toBeCloseTo(mixGal, 4);
+		expect(batch.stockGal).toBeCloseTo(stockGal, 4);
+		expect(batch.surfactantOz).toBeCloseTo(surfOz, 4);
+		expect(batch.stockGal + batch.waterGal + batch.surfactantOz / 128).toBeCloseTo(batch.mixGal, 9);
+
+		// §7 labour, in crew hours: set-up + application (squares × applications ÷ production,
+		// ground, one storey, G1) + post-rinse minutes per square; each line costed at the
+		// technician rate × crew size and rounded to the cent once.
+		const perCrewHour = card.labour.centsPerTechnicianHour * card.labour.crewSize;
+		const hours = [
+			card.labour.setupHours,
+			((sq * applications) / mat.productionSquaresPerHour) *
+				card.access.ground.labourMultiplier *
+				card.stories['1'].labourMultiplier *
+				card.growth.G1.labourFactor,
+			(sq * card.labour.rinseMinutesPerSquare) / 60
+		];
+		const labourCents = hours.reduce((s, h) => s + cents(h * perCrewHour), 0);
+		const crewHours = hours.reduce((s, h) => s + h, 0);
+		expect(body.labour.hours).toBeCloseTo(crewHours, 6);
+		expect(body.labour.technicianHours).toBeCloseTo(crewHours * card.labour.crewSize, 6);
+		expect(body.labour.costCents).toBe(labourCents);
+
+		// §10 cost and margin: stock and surfactant at the card's prices, labour, overhead as a
+		// share of the pre-tax price.
+		const chemicalCents =
+			cents(stockGal * card.chemistry.stockCentsPerGal) +
+			cents(surfOz * card.chemistry.surfactantCentsPerOz);
+		const costCents = chemicalCents + labourCents + pct(subtotal, card.overheadPct);
+		expect(body.cost.chemicalCents).toBe(chemicalCents);
+		expect(body.cost.labourCents).toBe(labourCents);
+		expect(body.cost.totalCents).toBe(costCents);
+		expect(body.marginPct).toBeCloseTo(((subtotal - costCents) / subtotal) * 100, 9);
 		expect(body.rateCard.version).toBe(1);
 		expect(body.estimate).toBeUndefined();
 	});
@@ -585,7 +657,17 @@ describe('a saved estimate keeps its price when the owner changes the rates', ()
 			const scaled = (before.result.facets[i].priceCents * 40) / 32;
 			expect(Math.abs(f.priceCents - scaled)).toBeLessThanOrEqual(1);
 		}
-		expect(again.json.price.totalCents).toBeGreaterThan(before.totalCents);
+		// Only the facet lines changed (post-rinse is per ft², the demo card has no tax and h03 is
+		// over the minimum job), so the total moves by exactly their change.
+		const facetRise = again.json.facets.reduce(
+			(s: number, f: { priceCents: number }, i: number) =>
+				s + f.priceCents - before.result.facets[i].priceCents,
+			0
+		);
+		expect(again.json.price.minimumAdjustmentCents).toBe(0);
+		expect(again.json.price.taxCents).toBe(0);
+		expect(again.json.price.totalCents - before.totalCents).toBe(facetRise);
+		expect(facetRise).toBeGreaterThan(0);
 
 		// Asking for version 1 by id still prices with it.
 		const v1 = await call('POST', '/api/estimates', owner(), {

@@ -37,7 +37,8 @@ describe('sign-in', () => {
 		// The database keeps only a hash of the cookie's token.
 		const token = set.match(/cp_session=([^;]+)/)![1];
 		expect(token.length).toBeGreaterThanOrEqual(26);
-		// lucia cookie guidance (RELIABILITY.md §2): HttpOnly, SameSite=Lax, Secure, Path=/.
+		// Lucia's session-cookie guidance (lucia-auth.com/sessions/cookies): HttpOnly, SameSite=Lax,
+		// Secure, Path=/.
 		expect(set).toMatch(/HttpOnly/);
 		expect(set).toMatch(/SameSite=Lax/);
 		expect(set).toMatch(/Secure/);

@@ -30,7 +30,8 @@ export function primeVerticalRadius(latDeg: number): number {
 
 /**
  * Turf's area is on a sphere of radius R = 6,371,008.8 m, so a small polygon comes out scaled
- * by R²/(M·N) at its latitude (+0.45% at the equator, −0.56% at 60°; DOMAIN.md §4).
+ * by R²/(M·N) at its latitude (+0.45% at the equator, −0.56% at 60°; docs/estimating-model.md
+ * §1).
  * Multiplying by M·N/R² puts it on the WGS84 ellipsoid.
  */
 export function ellipsoidAreaCorrection(latDeg: number): number {
@@ -159,8 +160,9 @@ export function measureFacetPlan(polygon: Polygon): PlanResult {
 	}
 
 	// Plan lengths in a local plane from the ellipsoid's radii: x = N·cosφ·Δλ, y = M·Δφ
-	// (agrees with GeographicLib to well under 1 ppm over a roof; DOMAIN.md §4). M and N barely
-	// change across a roof, but cosφ does (by ~5 ppm over 12 m at 70°), so it is taken per edge.
+	// (agrees with GeographicLib to well under 1 ppm over a roof; docs/estimating-model.md §1).
+	// M and N barely change across a roof, but cosφ does (by ~5 ppm over 12 m at 70°), so it is
+	// taken per edge.
 	const phiC = centroidLatDeg * DEG;
 	const sinC = Math.sin(phiC);
 	const cosC = Math.cos(phiC);
@@ -311,9 +313,9 @@ export interface EaveResult {
 }
 
 /**
- * Eave length from the edge labels. An eave is its true plan length (DOMAIN.md §3.1). Without
- * labels the longest unlabelled segment stands in for it: the eave is the longest edge of a
- * gable rectangle, a hip triangle and a hip trapezoid alike. A fully labelled facet with no
+ * Eave length from the edge labels. An eave is its true plan length (docs/estimating-model.md
+ * §2). Without labels the longest unlabelled segment stands in for it: the eave is the longest
+ * edge of a gable rectangle, a hip triangle and a hip trapezoid alike. A fully labelled facet with no
  * eave (one draining onto another facet) has none.
  */
 export function eaveLength(

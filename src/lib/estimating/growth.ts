@@ -26,7 +26,8 @@ export interface StrengthDecision {
  * A quick, clean colour change at or below the suggested strength shows the growth gives way
  * easily: one step down, but never below what was tested nor the material's minimum. A slow
  * change, or one that did not rinse clean, raises one step, still capped by the material.
- * Thresholds come from the rate card (DOMAIN.md §3.5: ~30–45 s at ~5% cleans without pressure).
+ * Thresholds come from the rate card (common practice: a ~5% test spot that changes colour in
+ * ~30–45 s cleans without pressure; docs/estimating-model.md §4).
  */
 export function applyTestSpot(
 	suggestedPct: number,

@@ -35,7 +35,8 @@ export interface JobLabourInput {
 
 /**
  * Hours here are crew hours: the time on site with the whole crew working, because the
- * production rates are a crew's (DOMAIN.md §3.4: a 25-square ranch is 2–3 h for two people).
+ * production rates are a crew's (docs/estimating-model.md §7: a 25-square ranch is 2–3 h for
+ * two people, from memory).
  * Technician hours = crew hours × crew size; wages are paid on those.
  * Each line is rounded to the cent once; costCents is their sum.
  */

@@ -1,5 +1,5 @@
 /**
- * Pitch as the US trade gives it: rise in inches per 12 in of run (DOMAIN.md §3.1).
+ * Pitch as the US trade gives it: rise in inches per 12 in of run (docs/estimating-model.md §2).
  */
 
 /** Slope (pitch) multiplier √(1+(rise/12)²) = 1/cos θ: sloped area = plan area × this. */

@@ -81,10 +81,10 @@ export interface RateCard {
 }
 
 /**
- * Demo defaults, from memory, not advice (Clearpitch PRODUCT.md "Default rate card").
+ * Demo defaults, from memory, not advice (docs/estimating-model.md §12 "Default rate card").
  * Figures the table does not give (base strengths, grade steps and applications, set-up and
  * rinse times, chemical prices, water per ft of eave, discount cap) are demo defaults chosen
- * within the ranges DOMAIN.md §3.4–3.6 gives from memory.
+ * within the ranges docs/estimating-model.md §12 gives, also from memory.
  */
 export const DEFAULT_RATE_CARD: RateCard = {
 	materials: {
@@ -144,7 +144,8 @@ export const DEFAULT_RATE_CARD: RateCard = {
 		}
 	},
 	growth: {
-		// demo defaults, from memory: price multipliers from PRODUCT.md, steps from DOMAIN.md §3.5
+		// demo defaults, from memory: price multipliers and strength steps as in
+		// docs/estimating-model.md §12
 		G0: { strengthStepPct: -1, applications: 1, priceMultiplier: 0.8, labourFactor: 0.9 },
 		G1: { strengthStepPct: 0, applications: 1, priceMultiplier: 1.0, labourFactor: 1.0 },
 		G2: { strengthStepPct: 1, applications: 1, priceMultiplier: 1.15, labourFactor: 1.15 },
@@ -179,7 +180,7 @@ export const DEFAULT_RATE_CARD: RateCard = {
 	labour: {
 		centsPerTechnicianHour: 3800, // demo default, from memory
 		crewSize: 2, // demo default, from memory
-		setupHours: 1.0, // demo default, from memory (DOMAIN.md §3.4: ~0.75–1.5 h)
+		setupHours: 1.0, // demo default, from memory (docs/estimating-model.md §12: ~0.75–1.5 h)
 		rinseMinutesPerSquare: 1 // demo default, from memory
 	},
 	overheadPct: 12, // demo default, from memory

@@ -8,7 +8,9 @@ import {
 } from '../../../src/lib/estimating';
 import { facet, gableRoof, localPlane, WRENFIELD } from './fixtures';
 
-// Source: DOMAIN.md §3.3 C1·V1 = C2·V2 worked table (target × batch, stock strengths).
+// Worked values: docs/estimating-model.md §13 "Worked values", W5–W8: the dilution table
+// C1·V1 = C2·V2 (target × batch, from 12.5% pool chlorine, 10%, 8.25% and 6% household bleach;
+// stock strengths as sold: see the page's §6.1 and its references). Published to 0.1, so ±0.1.
 const TABLE: Array<[targetPct: number, batch: number, byStock: Record<number, number>]> = [
 	[4, 100, { 12.5: 32.0, 10: 40.0, 8.25: 48.5, 6: 66.7 }],
 	[5, 100, { 12.5: 40.0, 10: 50.0, 8.25: 60.6, 6: 83.3 }],
@@ -27,7 +29,7 @@ describe('dilution by C1·V1 = C2·V2', () => {
 	for (const [target, batch, byStock] of TABLE) {
 		for (const [stock, expected] of Object.entries(byStock)) {
 			it(`${target}% × ${batch} from ${stock}% stock → ${expected}`, () => {
-				// Source: DOMAIN.md §3.3 table, ±0.1
+				// Source: docs/estimating-model.md §13 W5–W8 (dilution table), ±0.1
 				expect(Math.abs(stockVolume(target, batch, Number(stock)) - expected)).toBeLessThanOrEqual(
 					0.1
 				);
@@ -43,7 +45,7 @@ describe('dilution by C1·V1 = C2·V2', () => {
 	}
 
 	it('4% × 100 gal from 12.5% is 32.0 gal of stock and 68 gal of water', () => {
-		// Source: DOMAIN.md §3.3 ("32.0 gal SH + 68 gal")
+		// Source: docs/estimating-model.md §13 W5 ("32.0 gal of 12.5% stock + 68 gal")
 		const { batches } = buildBatches(
 			[{ id: 'x', mixStrengthPct: 4, mixGal: 100 }],
 			12.5,
@@ -54,16 +56,56 @@ describe('dilution by C1·V1 = C2·V2', () => {
 	});
 
 	it('stock that re-tests at 11% needs 36.4 gal for 4% × 100 gal', () => {
-		// Source: DOMAIN.md §3.3 decay paragraph (re-test each lot, mix from the measured strength)
-		expect(Math.abs(stockVolume(4, 100, 11) - 36.4)).toBeLessThanOrEqual(0.1);
+		// Source: docs/estimating-model.md §13 W9 (common practice: re-test each lot and mix from
+		// the measured strength; 4 × 100 ÷ 11 = 36.36, published to 0.1)
+		expect(Math.abs(stockVolume(4, 100, 11) - 36.4)).toBeLessThanOrEqual(0.05);
+		const { batches } = buildBatches([{ id: 'x', mixStrengthPct: 4, mixGal: 100 }], 11, noExtras());
+		expect(Math.abs(batches[0].stockGal - 36.4)).toBeLessThanOrEqual(0.05);
+		expect(Math.abs(batches[0].waterGal - 63.6)).toBeLessThanOrEqual(0.05);
 	});
 
-	it('ratio checks: 1:1 from 12.5% is 6.25%; 1 part to 10 parts water from 5.25% is 0.48%', () => {
-		// Source: DOMAIN.md §3.3 ratio checks; UF extension (V. Peart, "Algae Growth on Roofs")
-		// C2 = C1·V1/V2
-		expect((12.5 * 50) / 100).toBe(6.25);
-		// solve for the strength that needs 1 of 11 parts: stockVolume(C2, 11, 5.25) = 1
-		expect(stockVolume(0.477, 11, 5.25)).toBeCloseTo(1, 2);
+	it('1 part 12.5% stock to 1 part water ("50/50") is a 6.25% mix', () => {
+		// Source: docs/estimating-model.md §13 W10 (1:1 from 12.5% → 6.25%). The code must ask
+		// for exactly one part of stock to one of water for a 6.25% mix from 12.5% stock.
+		const { batches } = buildBatches(
+			[{ id: 'x', mixStrengthPct: 6.25, mixGal: 2 }],
+			12.5,
+			noExtras()
+		);
+		expect(batches[0].stockGal).toBeCloseTo(1, 12);
+		expect(batches[0].waterGal).toBeCloseTo(1, 12);
+	});
+
+	it("ARMA's 1 part household bleach to 1 part water is a 2.6–4.1% mix", () => {
+		// Source: ARMA technical bulletin "Algae Discoloration of Roofs" (1 part bleach : 1 part
+		// water); docs/estimating-model.md §13 W11: from 5.25% → 2.6%, from 8.25% → 4.1%.
+		// The published strengths are rounded to 0.1 point, so one part comes back to ±2%.
+		for (const [stock, mix] of [
+			[5.25, 2.6],
+			[8.25, 4.1]
+		] as const) {
+			const { batches } = buildBatches(
+				[{ id: 'x', mixStrengthPct: mix, mixGal: 2 }],
+				stock,
+				noExtras()
+			);
+			expect(Math.abs(batches[0].stockGal - 1)).toBeLessThanOrEqual(0.02);
+			expect(Math.abs(batches[0].waterGal - 1)).toBeLessThanOrEqual(0.02);
+		}
+	});
+
+	it('the UF extension mix, 1 part 5.25% chlorine bleach to 10 parts water, is 0.48%', () => {
+		// Source: V. Peart, "Algae Growth on Roofs", Univ. of Florida Cooperative Extension
+		// (1 part to 10 parts water); docs/estimating-model.md §13 W12: 1/11 of 5.25% = 0.48%.
+		// 0.48 is rounded to 0.01 point (of 0.477), so one part of 11 comes back to ±1.1%.
+		const { batches } = buildBatches(
+			[{ id: 'x', mixStrengthPct: 0.48, mixGal: 11 }],
+			5.25,
+			noExtras()
+		);
+		expect(Math.abs(batches[0].stockGal - 1)).toBeLessThanOrEqual(0.011);
+		expect(Math.abs(batches[0].waterGal - 10)).toBeLessThanOrEqual(0.011);
+		expect(Math.abs(stockVolume(0.48, 11, 5.25) - 1)).toBeLessThanOrEqual(0.011);
 	});
 });
 

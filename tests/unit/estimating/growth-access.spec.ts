@@ -58,7 +58,8 @@ describe('growth grade → mix strength', () => {
 			card
 		);
 		expect(r.facets.map((f) => f.applications)).toEqual([1, 2, 2]);
-		// common practice: treated lichen whitens first and clears over weeks (DOMAIN.md §3.5)
+		// common practice, no source: treated lichen whitens first and clears over weeks
+		// (docs/estimating-model.md §4)
 		const lichen = r.expectations.find((e) => e.code === 'growth.lichen');
 		expect(lichen?.facetIds).toEqual(['b', 'c']);
 		expect(lichen?.message).toMatch(/white/);
@@ -250,7 +251,7 @@ describe('access grade', () => {
 
 describe('materials', () => {
 	it('clay and concrete tile carry the batch-colour expectation (common practice)', () => {
-		// common practice, no source (DOMAIN.md §3.5 proposal caveats)
+		// common practice, no source (docs/estimating-model.md §4, proposal caveats)
 		const r = estimate(
 			{
 				facets: [

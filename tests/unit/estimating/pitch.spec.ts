@@ -10,7 +10,7 @@ import { measureFacetPlan } from '../../../src/lib/estimating/geometry';
 import { facet, localPlane } from './fixtures';
 
 // Source: JLC (Journal of Light Construction), "Asphalt Shingles Field Guide", slope and
-// hip/valley factor table, as transcribed in DOMAIN.md §3.1 (rise/12: slope, hip-valley).
+// hip/valley factor table (rise/12: slope, hip-valley), listed in docs/estimating-model.md §13 W3.
 const JLC_TABLE: Array<[rise: number, slope: number, hipValley: number]> = [
 	[4, 1.054, 1.452],
 	[5, 1.083, 1.474],
@@ -23,7 +23,8 @@ const JLC_TABLE: Array<[rise: number, slope: number, hipValley: number]> = [
 	[12, 1.414, 1.732]
 ];
 
-// Formula values m = √(1+(rise/12)²) and hip = √(2+(rise/12)²) to 5 decimals, DOMAIN.md §3.1.
+// Formula values m = √(1+(rise/12)²) and hip = √(2+(rise/12)²) to 5 decimals
+// (docs/estimating-model.md §2 and §13 W3).
 const FORMULA_TABLE: Array<[rise: number, slope: number, hipValley: number, angleDeg: number]> = [
 	[1, 1.00347, 1.41667, 4.76],
 	[2, 1.01379, 1.424, 9.46],
@@ -51,7 +52,8 @@ describe('pitch multiplier', () => {
 	});
 
 	it.each(FORMULA_TABLE)('%i/12 matches √(1+(rise/12)²) to 1e-5', (rise, slope, hip, angle) => {
-		// Source: DOMAIN.md §3.1 formula table (5-decimal values), Griffith, Carpentry (1916)
+		// Source: docs/estimating-model.md §13 W3 (5-decimal formula values); I.S. Griffith,
+		// Carpentry (1916), "Determining length of hip or valley rafter"
 		expect(Math.abs(pitchMultiplier(rise) - slope)).toBeLessThanOrEqual(1e-5);
 		expect(Math.abs(hipValleyFactor(rise) - hip)).toBeLessThanOrEqual(1e-5);
 		expect(Math.abs(pitchAngleDeg(rise) - angle)).toBeLessThanOrEqual(0.005);
@@ -69,13 +71,14 @@ describe('pitch multiplier', () => {
 		// Source: US Army Engineer School subcourse EN0069, framing-square rafter table
 		expect(rafterInchesPerFootRun(13)).toBeCloseTo(17.69, 2);
 		expect(rafterInchesPerFootRun(16)).toBeCloseTo(20.0, 2);
-		// and the 12·m column of DOMAIN.md §3.1
+		// and the 12·m column of docs/estimating-model.md §13 W3
 		expect(rafterInchesPerFootRun(6)).toBeCloseTo(13.42, 2);
 		expect(rafterInchesPerFootRun(12)).toBeCloseTo(16.97, 2);
 	});
 
 	it('hip from corner to ridge over a 15 ft common run at 6/12 is 22.5 ft', () => {
-		// Source: DOMAIN.md §3.1 worked check (Griffith: the factor multiplies the common run)
+		// Source: docs/estimating-model.md §13 W2 (I.S. Griffith, Carpentry (1916): the factor
+		// multiplies the common run)
 		expect(15 * hipValleyFactor(6)).toBeCloseTo(22.5, 10);
 		// the same hip from its plan length 21.21 ft × √(1+m²/2) with m = rise/12
 		const planLength = Math.hypot(15, 15);
@@ -84,7 +87,8 @@ describe('pitch multiplier', () => {
 });
 
 describe('worked check: 40 × 30 ft plan at 6/12', () => {
-	// Source: DOMAIN.md §3.1: 1200 × 1.11803 = 1341.6 ft² = 13.42 squares.
+	// Source: docs/estimating-model.md §13 W1 (JLC slope factor): 1200 × 1.11803 = 1341.6 ft²
+	// = 13.42 squares.
 	// The polygon is built in a local plane at 47.6° N (an arbitrary latitude) so its plan area
 	// is 1200 ft² on the ellipsoid.
 	const plane = localPlane(47.6, -120.3);

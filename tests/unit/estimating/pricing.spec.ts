@@ -12,7 +12,10 @@ import { facet, gableRoof, localPlane, WRENFIELD } from './fixtures';
 const plane = localPlane(WRENFIELD.lat, WRENFIELD.lon);
 const sum = (xs: Array<{ amountCents: number }>) => xs.reduce((s, x) => s + x.amountCents, 0);
 
-/** The DOMAIN.md §3.1 worked roof: 40 × 30 ft plan at 6/12, shingle, G1, ground, one storey. */
+/**
+ * Worked roof W1 (docs/estimating-model.md §13): 40 × 30 ft plan at 6/12, shingle, G1, ground,
+ * one storey.
+ */
 const worked = (): EstimateInput => ({
 	facets: [
 		facet({
@@ -26,7 +29,8 @@ const worked = (): EstimateInput => ({
 
 describe('worked estimate, by hand from the default card', () => {
 	const r = estimate(worked(), DEFAULT_RATE_CARD);
-	const squares = (1200 * Math.sqrt(1.25)) / 100; // DOMAIN.md §3.1: 13.42 squares
+	// docs/estimating-model.md §13 W1 (JLC slope factor): 13.42 squares
+	const squares = (1200 * Math.sqrt(1.25)) / 100;
 
 	it('prices squares × $32 and post-rinse at 4¢/ft²', () => {
 		expect(r.facets[0].priceCents).toBe(Math.round(squares * 3200));
@@ -161,7 +165,8 @@ describe('minimum job, discount, tax, extras, steep pitch', () => {
 	});
 
 	it('growth price multipliers G0 ×0.8 … G4 ×1.6', () => {
-		const mult = { G0: 0.8, G1: 1.0, G2: 1.15, G3: 1.35, G4: 1.6 } as const; // PRODUCT.md defaults
+		// demo defaults, from memory (docs/estimating-model.md §12)
+		const mult = { G0: 0.8, G1: 1.0, G2: 1.15, G3: 1.35, G4: 1.6 } as const;
 		for (const [g, m] of Object.entries(mult)) {
 			const r = estimate(
 				{ facets: [facet({ polygon: plane.rectFt(40, 30), growth: g as keyof typeof mult })] },

@@ -8,7 +8,7 @@ const FT = 0.3048;
 
 describe('measureFacet', () => {
 	it('reproduces the worked gable check: 40 ft × 30 ft at 6/12 → 1341.6 ft², 13.42 squares', () => {
-		// Source: DOMAIN.md §3.1 worked check (1200 × 1.11803; slope factor as in the JLC
+		// Source: docs/estimating-model.md §13 W1 (1200 × 1.11803; slope factor as in the JLC
 		// "Asphalt Shingles Field Guide" table). Rectangle placed with GeographicLib at an
 		// invented spot (Wrenfield is invented).
 		const geometry = rectangleM(35.52, -74.46, 40 * FT, 30 * FT);

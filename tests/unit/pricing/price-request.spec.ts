@@ -79,7 +79,8 @@ describe('priceRequest', () => {
 			path: 'facets.0.pitch',
 			message: 'pitch must be at most 24'
 		});
-		// Roof access on clay tile: not walked (DOMAIN.md; common practice, no single source).
+		// Roof access on clay tile: not walked (common practice, no single source;
+		// docs/estimating-model.md §5).
 		const tile = {
 			facets: gableRoof().map((f) => ({ ...f, material: 'clay_tile', access: 'roof' }))
 		};
