@@ -78,7 +78,9 @@ describe('mail outbox through the SMTP fake', () => {
 		expect(got[0].envelope.to).toEqual(['marisol.quenby@wrenfield.example']);
 		expect(got[0].subject).toContain('14 Tidewater Lane, Wrenfield');
 		expect(got[0].text).toContain('Deposit to book: $245.00');
-		expect(got[0].html).toContain('href="http://localhost:3000/p/demo-token-abcdefghijklmnopqrstuvwxyz"');
+		expect(got[0].html).toContain(
+			'href="http://localhost:3000/p/demo-token-abcdefghijklmnopqrstuvwxyz"'
+		);
 		const r = await row(q.id);
 		expect(r.status).toBe('sent');
 		expect(r.attempts).toBe(1);
@@ -87,14 +89,19 @@ describe('mail outbox through the SMTP fake', () => {
 		// The fake's HTTP inbox and its JSON file say the same (what the Outbox page reads).
 		const inbox = await mail.readFakeInbox(fake.inboxUrl);
 		expect(inbox?.map((m) => m.id)).toEqual([got[0].id]);
-		const file = JSON.parse(fs.readFileSync(path.join(dir, '..', `mail-${process.pid}.json`), 'utf8'));
+		const file = JSON.parse(
+			fs.readFileSync(path.join(dir, '..', `mail-${process.pid}.json`), 'utf8')
+		);
 		expect(file[0].subject).toBe(got[0].subject);
 	});
 
 	it('makes one message for one idempotency key, however often it is asked', async () => {
 		const transport = mail.createMailTransport(fake.url)!;
 		const a = await mail.enqueueMail(db, proposalMessage('proposal:p2:v1'));
-		const b = await mail.enqueueMail(db, { ...proposalMessage('proposal:p2:v1'), subject: 'changed' });
+		const b = await mail.enqueueMail(db, {
+			...proposalMessage('proposal:p2:v1'),
+			subject: 'changed'
+		});
 		expect(b).toMatchObject({ id: a.id, created: false });
 		await mail.sendDueMail(db, transport);
 		await mail.sendDueMail(db, transport);
@@ -128,11 +135,13 @@ describe('mail outbox through the SMTP fake', () => {
 
 		fake.refuse(null);
 		// Not due yet at +30 s: nothing is tried.
-		expect(await mail.sendDueMail(db, transport, { now: new Date(t0.getTime() + 30_000) })).toEqual({
-			sent: 0,
-			failed: 0,
-			dead: 0
-		});
+		expect(await mail.sendDueMail(db, transport, { now: new Date(t0.getTime() + 30_000) })).toEqual(
+			{
+				sent: 0,
+				failed: 0,
+				dead: 0
+			}
+		);
 		expect(fake.messages()).toHaveLength(0);
 		const pass = await mail.sendDueMail(db, transport, { now: new Date(t0.getTime() + 61_000) });
 		expect(pass.sent).toBe(1);

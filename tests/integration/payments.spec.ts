@@ -111,7 +111,9 @@ describe('creating a deposit checkout', () => {
 		const c = await pay.createDepositCheckout(db, stripe, input);
 		expect(b.id).toBe(a.id);
 		expect(c.id).toBe(a.id);
-		expect(fake.sessions().filter((s) => s.metadata.idempotencyKey === input.idempotencyKey)).toHaveLength(1);
+		expect(
+			fake.sessions().filter((s) => s.metadata.idempotencyKey === input.idempotencyKey)
+		).toHaveLength(1);
 		const rows = await db
 			.select()
 			.from(schema.depositCheckouts)
@@ -164,7 +166,11 @@ describe('creating a deposit checkout', () => {
 
 describe('the pay page and its webhooks', () => {
 	it('pays on the hosted page: signed event verified, checkout complete, sent back to success', async () => {
-		const c = await pay.createDepositCheckout(db, stripe, deposit(estimateIds[3], 'deposit:pay:v1'));
+		const c = await pay.createDepositCheckout(
+			db,
+			stripe,
+			deposit(estimateIds[3], 'deposit:pay:v1')
+		);
 		const page = await fetch(c.url);
 		expect(page.status).toBe(200);
 		const htmlText = await page.text();
@@ -189,7 +195,11 @@ describe('the pay page and its webhooks', () => {
 	});
 
 	it('applies a replayed or duplicated event once', async () => {
-		const c = await pay.createDepositCheckout(db, stripe, deposit(estimateIds[4], 'deposit:replay:v1'));
+		const c = await pay.createDepositCheckout(
+			db,
+			stripe,
+			deposit(estimateIds[4], 'deposit:replay:v1')
+		);
 		const calls = onChangeCalls;
 		const event = await fake.pay(c.id);
 		expect(onChangeCalls).toBe(calls + 1);
@@ -208,7 +218,11 @@ describe('the pay page and its webhooks', () => {
 	});
 
 	it('cancels: the session expires, the customer goes back, nothing is paid', async () => {
-		const c = await pay.createDepositCheckout(db, stripe, deposit(estimateIds[5], 'deposit:cancel:v1'));
+		const c = await pay.createDepositCheckout(
+			db,
+			stripe,
+			deposit(estimateIds[5], 'deposit:cancel:v1')
+		);
 		const res = await fetch(c.url, {
 			method: 'POST',
 			redirect: 'manual',
@@ -221,14 +235,22 @@ describe('the pay page and its webhooks', () => {
 		expect(row.status).toBe('expired');
 		expect(row.paidAt).toBeNull();
 		// A second click on a finished page changes nothing.
-		const again = await fetch(c.url, { method: 'POST', body: 'action=pay', headers: { 'content-type': 'application/x-www-form-urlencoded' } });
+		const again = await fetch(c.url, {
+			method: 'POST',
+			body: 'action=pay',
+			headers: { 'content-type': 'application/x-www-form-urlencoded' }
+		});
 		expect(again.status).toBe(409);
 		expect((await checkoutRow(c.id)).status).toBe('expired');
 	});
 
 	it('handles events out of order: paid stays paid, and an event may come before our record', async () => {
 		// A late "expired" for a checkout already paid is ignored.
-		const c = await pay.createDepositCheckout(db, stripe, deposit(estimateIds[0], 'deposit:order:v1', 10_000));
+		const c = await pay.createDepositCheckout(
+			db,
+			stripe,
+			deposit(estimateIds[0], 'deposit:order:v1', 10_000)
+		);
 		const paid = await fake.pay(c.id);
 		const late = {
 			...paid,
@@ -249,9 +271,17 @@ describe('the pay page and its webhooks', () => {
 			{
 				mode: 'payment',
 				line_items: [
-					{ quantity: 1, price_data: { currency: 'usd', unit_amount: 20_000, product_data: { name: 'Deposit' } } }
+					{
+						quantity: 1,
+						price_data: { currency: 'usd', unit_amount: 20_000, product_data: { name: 'Deposit' } }
+					}
 				],
-				metadata: { kind: 'deposit', companyId, estimateId: estimateIds[1], idempotencyKey: 'deposit:early:v1' },
+				metadata: {
+					kind: 'deposit',
+					companyId,
+					estimateId: estimateIds[1],
+					idempotencyKey: 'deposit:early:v1'
+				},
 				success_url: 'http://localhost:3000/ok',
 				cancel_url: 'http://localhost:3000/no'
 			},
@@ -260,11 +290,20 @@ describe('the pay page and its webhooks', () => {
 		expect(await checkoutRow(s.id)).toBeUndefined();
 		await fake.pay(s.id);
 		const early = await checkoutRow(s.id);
-		expect(early).toMatchObject({ status: 'complete', amountCents: 20_000, amountPaidCents: 20_000, estimateId: estimateIds[1] });
+		expect(early).toMatchObject({
+			status: 'complete',
+			amountCents: 20_000,
+			amountPaidCents: 20_000,
+			estimateId: estimateIds[1]
+		});
 	});
 
 	it('refuses a tampered body, a wrong secret, a stale or missing signature, and records nothing', async () => {
-		const c = await pay.createDepositCheckout(db, stripe, deposit(estimateIds[2], 'deposit:tamper:v1'));
+		const c = await pay.createDepositCheckout(
+			db,
+			stripe,
+			deposit(estimateIds[2], 'deposit:tamper:v1')
+		);
 		const s = fake.sessions().find((x) => x.id === c.id)!;
 		const event = {
 			id: 'evt_test_tampered_0001',
@@ -279,14 +318,20 @@ describe('the pay page and its webhooks', () => {
 		const post = (body: string, sig?: string) =>
 			fetch(hook, {
 				method: 'POST',
-				headers: { 'content-type': 'application/json', ...(sig ? { 'stripe-signature': sig } : {}) },
+				headers: {
+					'content-type': 'application/json',
+					...(sig ? { 'stripe-signature': sig } : {})
+				},
 				body
 			});
 
 		const tampered = payload.replace('"amount_total":32500', '"amount_total":1');
 		expect(tampered).not.toBe(payload);
 		expect((await post(tampered, good)).status).toBe(400);
-		const wrongSecret = Stripe.webhooks.generateTestHeaderString({ payload, secret: 'whsec_other' });
+		const wrongSecret = Stripe.webhooks.generateTestHeaderString({
+			payload,
+			secret: 'whsec_other'
+		});
 		expect((await post(payload, wrongSecret)).status).toBe(400);
 		// Older than the SDK's default 300 s tolerance.
 		const stale = Stripe.webhooks.generateTestHeaderString({
@@ -310,7 +355,17 @@ describe('the pay page and its webhooks', () => {
 			object: 'event',
 			type: 'checkout.session.completed',
 			created: 1_780_000_000,
-			data: { object: { id: 'cs_test_other', object: 'checkout.session', metadata: { kind: 'deposit', companyId, estimateId: '00000000-0000-4000-8000-000000000000' } } }
+			data: {
+				object: {
+					id: 'cs_test_other',
+					object: 'checkout.session',
+					metadata: {
+						kind: 'deposit',
+						companyId,
+						estimateId: '00000000-0000-4000-8000-000000000000'
+					}
+				}
+			}
 		} as unknown as Stripe.Event);
 		expect(r.outcome).toBe('unrelated');
 		expect(await checkoutRow('cs_test_other')).toBeUndefined();

@@ -166,7 +166,9 @@ describe('processPhoto', () => {
 
 	it('refuses a file over the size cap and an empty one', async () => {
 		const jpeg = await jpegWithExif(400, 300);
-		const r = await refusal(processPhoto({ name: 'big.jpg', bytes: jpeg }, { ...LIMITS, maxBytes: 1000 }));
+		const r = await refusal(
+			processPhoto({ name: 'big.jpg', bytes: jpeg }, { ...LIMITS, maxBytes: 1000 })
+		);
 		expect(r.reason).toBe('too-large');
 		expect(r.message).toContain('big.jpg');
 		const e = await refusal(processPhoto({ name: 'none.jpg', bytes: new Uint8Array() }, LIMITS));
@@ -209,7 +211,10 @@ describe('per-visit limit and storing', () => {
 	});
 
 	it('stores both copies under server keys, or neither when the second write fails', async () => {
-		const p = await processPhoto({ name: '../../etc/passwd.jpg', bytes: await jpegWithExif(300, 200) }, LIMITS);
+		const p = await processPhoto(
+			{ name: '../../etc/passwd.jpg', bytes: await jpegWithExif(300, 200) },
+			LIMITS
+		);
 		const disk = new DiskStorage(path.join(root, 'ok'));
 		const stored = await storePhoto(disk, 'c0mpany', p);
 		expect(stored.displayKey).toMatch(/^photos\/c0mpany\/[0-9a-f-]{36}$/);
@@ -231,7 +236,9 @@ describe('per-visit limit and storing', () => {
 		};
 		await expect(storePhoto(failing, 'c0mpany', p as ProcessedPhoto)).rejects.toThrow('disk full');
 		const left = fs.existsSync(path.join(root, 'half', 'photos', 'c0mpany'))
-			? fs.readdirSync(path.join(root, 'half', 'photos', 'c0mpany')).filter((f) => !f.endsWith('.type'))
+			? fs
+					.readdirSync(path.join(root, 'half', 'photos', 'c0mpany'))
+					.filter((f) => !f.endsWith('.type'))
 			: [];
 		expect(left).toEqual([]);
 	});

@@ -59,7 +59,9 @@ export const env = {
 		if (!bucket) return null;
 		const endpoint = process.env.CLEARPITCH_S3_ENDPOINT || undefined;
 		if (endpoint && !/^https?:\/\//.test(endpoint)) {
-			throw new ConfigError(`CLEARPITCH_S3_ENDPOINT must start with http:// or https:// (got "${endpoint}")`);
+			throw new ConfigError(
+				`CLEARPITCH_S3_ENDPOINT must start with http:// or https:// (got "${endpoint}")`
+			);
 		}
 		const accessKeyId = process.env.CLEARPITCH_S3_ACCESS_KEY_ID || undefined;
 		const secretAccessKey = process.env.CLEARPITCH_S3_SECRET_ACCESS_KEY || undefined;

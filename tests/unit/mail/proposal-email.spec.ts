@@ -47,7 +47,10 @@ describe('buildProposalEmail', () => {
 	});
 
 	it('keeps the subject on one line and refuses a link that is not http(s)', () => {
-		const m = buildProposalEmail({ ...base, siteAddress: '9 Fern Ct\r\nBcc: someone@else.example' });
+		const m = buildProposalEmail({
+			...base,
+			siteAddress: '9 Fern Ct\r\nBcc: someone@else.example'
+		});
 		expect(m.subject).not.toMatch(/[\r\n]/);
 		expect(() => buildProposalEmail({ ...base, link: 'javascript:alert(1)' })).toThrow(/http/);
 		expect(() => buildProposalEmail({ ...base, validUntil: '30/06/2026' })).toThrow(/date/);

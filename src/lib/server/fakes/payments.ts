@@ -76,7 +76,10 @@ export async function startPaymentsFake(opts: {
 
 	const deliver = async (event: FakeEvent): Promise<Delivery> => {
 		const payload = JSON.stringify(event, null, 2);
-		const header = Stripe.webhooks.generateTestHeaderString({ payload, secret: opts.webhookSecret });
+		const header = Stripe.webhooks.generateTestHeaderString({
+			payload,
+			secret: opts.webhookSecret
+		});
 		let d: Delivery = { eventId: event.id, status: null, error: null };
 		// Delivered at least once: a failed delivery is tried twice more, shortly after.
 		for (let attempt = 0; attempt < 3; attempt++) {
@@ -170,11 +173,17 @@ export async function startPaymentsFake(opts: {
 			const quantity = Number(item?.quantity ?? 1);
 			const problems: string[] = [];
 			if (p.mode !== 'payment') problems.push('mode must be payment');
-			if (!price || !Number.isInteger(amount) || amount < 50) problems.push('line_items[0][price_data][unit_amount] must be a whole number of cents ≥ 50');
+			if (!price || !Number.isInteger(amount) || amount < 50)
+				problems.push(
+					'line_items[0][price_data][unit_amount] must be a whole number of cents ≥ 50'
+				);
 			if (!Number.isInteger(quantity) || quantity < 1) problems.push('quantity must be ≥ 1');
-			if (typeof p.success_url !== 'string' || typeof p.cancel_url !== 'string') problems.push('success_url and cancel_url are required');
+			if (typeof p.success_url !== 'string' || typeof p.cancel_url !== 'string')
+				problems.push('success_url and cancel_url are required');
 			if (problems.length) {
-				return send(res, 400, { error: { type: 'invalid_request_error', message: problems.join('; ') } });
+				return send(res, 400, {
+					error: { type: 'invalid_request_error', message: problems.join('; ') }
+				});
 			}
 			const id = `cs_test_${token(40)}`;
 			const now = Math.floor(Date.now() / 1000);
@@ -224,12 +233,18 @@ export async function startPaymentsFake(opts: {
 				const action = new URLSearchParams(body.toString()).get('action');
 				if (s.status !== 'open') return html(res, 409, payPage(s));
 				await finish(s.id, action === 'pay' ? 'pay' : 'cancel');
-				const to = action === 'pay' ? s.success_url.replaceAll('{CHECKOUT_SESSION_ID}', s.id) : s.cancel_url;
+				const to =
+					action === 'pay' ? s.success_url.replaceAll('{CHECKOUT_SESSION_ID}', s.id) : s.cancel_url;
 				res.writeHead(303, { location: to });
 				return res.end();
 			}
 		}
-		send(res, 404, { error: { type: 'invalid_request_error', message: `Unrecognized request URL (${req.method}: ${url.pathname})` } });
+		send(res, 404, {
+			error: {
+				type: 'invalid_request_error',
+				message: `Unrecognized request URL (${req.method}: ${url.pathname})`
+			}
+		});
 	}
 
 	await new Promise<void>((resolve, reject) => {
@@ -265,7 +280,10 @@ export async function startPaymentsFake(opts: {
 
 function payPage(s: FakeSession): string {
 	const e = (v: string) =>
-		v.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
+		v.replace(
+			/[&<>"']/g,
+			(c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!
+		);
 	const amount = `${(s.amount_total / 100).toFixed(2)} ${s.currency.toUpperCase()}`;
 	const state =
 		s.status === 'open'
@@ -285,7 +303,12 @@ ${state}
 </body></html>`;
 }
 
-function send(res: http.ServerResponse, status: number, body: unknown, extra: Record<string, string> = {}) {
+function send(
+	res: http.ServerResponse,
+	status: number,
+	body: unknown,
+	extra: Record<string, string> = {}
+) {
 	res.writeHead(status, {
 		'content-type': 'application/json',
 		'request-id': `req_${token(14)}`,
@@ -320,7 +343,9 @@ export function parseForm(body: Buffer | string): Record<string, unknown> {
 	const out: Record<string, unknown> = {};
 	for (const [k, v] of new URLSearchParams(body.toString())) {
 		const path = k.split(/[[\]]+/).filter(Boolean);
-		if (path.some((part) => part === '__proto__' || part === 'constructor' || part === 'prototype')) {
+		if (
+			path.some((part) => part === '__proto__' || part === 'constructor' || part === 'prototype')
+		) {
 			continue;
 		}
 		let node = out as Record<string, unknown>;

@@ -37,12 +37,14 @@ export type SmtpFake = {
 	close(): Promise<void>;
 };
 
-export async function startSmtpFake(opts: {
-	port?: number;
-	httpPort?: number;
-	/** The JSON file kept beside the app's data; none when omitted. */
-	storeFile?: string;
-} = {}): Promise<SmtpFake> {
+export async function startSmtpFake(
+	opts: {
+		port?: number;
+		httpPort?: number;
+		/** The JSON file kept beside the app's data; none when omitted. */
+		storeFile?: string;
+	} = {}
+): Promise<SmtpFake> {
 	const host = '127.0.0.1';
 	let mode: RefuseMode = null;
 	const received: FakeMail[] = opts.storeFile ? load(opts.storeFile) : [];

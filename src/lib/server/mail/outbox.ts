@@ -80,7 +80,11 @@ export async function sendQueuedMail(
 		.update(mailOutbox)
 		.set({ status: 'sending', nextAttemptAt: new Date(now.getTime() + LEASE_MS) })
 		.where(
-			and(eq(mailOutbox.id, id), inArray(mailOutbox.status, DUE), lte(mailOutbox.nextAttemptAt, now))
+			and(
+				eq(mailOutbox.id, id),
+				inArray(mailOutbox.status, DUE),
+				lte(mailOutbox.nextAttemptAt, now)
+			)
 		)
 		.returning();
 	if (!row) return null;

@@ -135,7 +135,10 @@ function checkoutSessionOf(event: Stripe.Event): Stripe.Checkout.Session | null 
 }
 
 function isUuid(v: unknown): v is string {
-	return typeof v === 'string' && /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(v);
+	return (
+		typeof v === 'string' &&
+		/^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(v)
+	);
 }
 
 /** The recorded checkouts of one estimate, newest first. */
@@ -147,6 +150,8 @@ export async function depositCheckoutsFor(
 	const rows = await db
 		.select()
 		.from(depositCheckouts)
-		.where(and(eq(depositCheckouts.companyId, companyId), eq(depositCheckouts.estimateId, estimateId)));
+		.where(
+			and(eq(depositCheckouts.companyId, companyId), eq(depositCheckouts.estimateId, estimateId))
+		);
 	return rows.sort((a, b) => b.createdAt.getTime() - a.createdAt.getTime());
 }

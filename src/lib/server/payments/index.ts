@@ -6,5 +6,10 @@ export {
 	type DepositCheckoutInput
 } from './checkout';
 export { PaymentServiceError, WebhookSignatureError } from './errors';
-export { applyPaymentEvent, depositCheckoutsFor, type CheckoutRow, type EventOutcome } from './events';
+export {
+	applyPaymentEvent,
+	depositCheckoutsFor,
+	type CheckoutRow,
+	type EventOutcome
+} from './events';
 export { verifyWebhook } from './webhook';

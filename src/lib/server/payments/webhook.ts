@@ -16,6 +16,8 @@ export function verifyWebhook(
 	try {
 		return Stripe.webhooks.constructEvent(rawBody, signatureHeader, secret) as Stripe.Event;
 	} catch (e) {
-		throw new WebhookSignatureError(`The webhook signature does not check out: ${(e as Error).message}`);
+		throw new WebhookSignatureError(
+			`The webhook signature does not check out: ${(e as Error).message}`
+		);
 	}
 }

@@ -30,7 +30,11 @@ export async function checkPhotoBytes(
 	}
 	const found = await fileTypeFromBuffer(bytes);
 	if (!found) {
-		throw new PhotoRefusal(name, 'not-an-image', 'the file is not a photo (JPEG, PNG, WebP or HEIC).');
+		throw new PhotoRefusal(
+			name,
+			'not-an-image',
+			'the file is not a photo (JPEG, PNG, WebP or HEIC).'
+		);
 	}
 	if (!(found.mime in PHOTO_TYPES)) {
 		throw new PhotoRefusal(

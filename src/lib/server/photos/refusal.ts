@@ -25,6 +25,8 @@ export class PhotoRefusal extends Error {
 /** The user's file name as shown back in a message: trimmed, control characters removed. */
 export function displayName(name: string): string {
 	// eslint-disable-next-line no-control-regex
-	const clean = String(name ?? '').replace(/[\u0000-\u001f\u007f]/g, '').trim();
+	const clean = String(name ?? '')
+		.replace(/[\u0000-\u001f\u007f]/g, '')
+		.trim();
 	return (clean || 'unnamed file').slice(0, 120);
 }
