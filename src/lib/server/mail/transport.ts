@@ -1,7 +1,7 @@
-import nodemailer from 'nodemailer';
+import nodemailer, { type Transporter } from 'nodemailer';
 import { env } from '../env';
 
-export type MailTransport = nodemailer.Transporter;
+export type MailTransport = Transporter;
 
 /**
  * A nodemailer transport for an SMTP URL (CLEARPITCH_SMTP_URL by default), or null when none is
@@ -10,9 +10,10 @@ export type MailTransport = nodemailer.Transporter;
  */
 export function createMailTransport(url: string | null = env.smtpUrl): MailTransport | null {
 	if (!url) return null;
-	return nodemailer.createTransport(url, {
+	return nodemailer.createTransport({
+		url,
 		connectionTimeout: 10_000,
 		greetingTimeout: 10_000,
 		socketTimeout: 30_000
-	} as nodemailer.TransportOptions);
+	});
 }

@@ -1,4 +1,4 @@
-import sharp from 'sharp';
+import sharp, { type SharpOptions } from 'sharp';
 import { checkPhotoBytes, type PhotoType } from './check';
 import { readPhotoExif, type PhotoExif } from './exif';
 import { PhotoRefusal } from './refusal';
@@ -72,7 +72,7 @@ export async function processPhoto(
 
 async function render(
 	bytes: Uint8Array,
-	input: sharp.SharpOptions,
+	input: SharpOptions,
 	side: number,
 	quality: number
 ): Promise<Rendition> {
