@@ -2,3 +2,5 @@ export * from './company';
 export * from './auth';
 export * from './sites';
 export * from './estimating';
+export * from './mail';
+export * from './payments';
