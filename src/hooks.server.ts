@@ -40,7 +40,7 @@ const handleSession: Handle = async ({ event, resolve }) => {
 };
 
 /** One place decides who may open what; each load and endpoint checks again. */
-const guardRoutes: Handle = async ({ event, resolve }) => {
+export const guardRoutes: Handle = async ({ event, resolve }) => {
 	const path = event.url.pathname;
 	if (PUBLIC.some((p) => path === p || (p.endsWith('/') && path.startsWith(p)))) {
 		return resolve(event);
