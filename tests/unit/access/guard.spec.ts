@@ -63,6 +63,8 @@ describe('the route guard', () => {
 		// `%74` is `t`: the router decodes it and runs /api/team, so the guard must refuse crew.
 		expect(await guard('/api/team', '/api/%74eam', crew)).toBe(403);
 		expect(await guard('/(app)/team', '/%74eam', crew)).toBe(403);
+		// An encoded `a` still reaches the API, so a signed-out caller gets the API's 401.
+		expect(await guard('/api/team', '/%61pi/team', null)).toBe(401);
 	});
 
 	it('lets the roles in the table through and refuses the others', async () => {

@@ -2,7 +2,18 @@
 // src/routes folders (tests/helpers/routes.ts, following SvelteKit's routing docs), not from the
 // table, so a new page, action or endpoint without a row fails here before anyone can open it.
 import { describe, expect, it } from 'vitest';
-import { ACCESS, PUBLIC, ROLES, navFor, rolesFor, rolesForRoute } from '../../../src/lib/roles';
+import fs from 'node:fs';
+import path from 'node:path';
+import {
+	ACCESS,
+	PUBLIC,
+	PUBLIC_FILES,
+	ROLES,
+	isPublicFile,
+	navFor,
+	rolesFor,
+	rolesForRoute
+} from '../../../src/lib/roles';
 import { actionNames, endpointMethods, listRoutes, patternOf } from '../../helpers/routes';
 
 const routes = listRoutes();
@@ -104,6 +115,16 @@ describe('ACCESS', () => {
 			'/tiles/[z]/[x]/[y]',
 			'/tiles/tiles.json'
 		]);
+	});
+
+	it('opens only built assets and files in static/ outside the routes', () => {
+		for (const p of PUBLIC_FILES) {
+			expect(p === '/_app/' || fs.existsSync(path.join('static', p)), p).toBe(true);
+		}
+		expect(isPublicFile('/_app/immutable/entry/start.js')).toBe(true);
+		expect(isPublicFile('/favicon.svg')).toBe(true);
+		expect(isPublicFile('/favicon.svg/x')).toBe(false);
+		expect(isPublicFile('/sites')).toBe(false);
 	});
 
 	it('gives crew the Today page, crew sheets, account, sign-out and /api/me only', () => {
