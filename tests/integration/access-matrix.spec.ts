@@ -50,13 +50,7 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
 	'/tiles/[z]/[x]/[y]': 'public'
 };
 
-const CALLERS = [
-	'anonymous',
-	...ROLES,
-	'api token',
-	'revoked token',
-	'deactivated user'
-] as const;
+const CALLERS = ['anonymous', ...ROLES, 'api token', 'revoked token', 'deactivated user'] as const;
 type Caller = (typeof CALLERS)[number];
 
 /** What the guard should answer: let it through, refuse (401/403), or send to sign-in. */
@@ -122,7 +116,8 @@ function expected(cell: Cell, caller: Caller): Outcome {
 	const allowed = EXPECTED[cell.route.pattern];
 	if (allowed === 'public') return 'through';
 	const isApi = cell.route.pattern.startsWith('/api/');
-	const signedOut = caller === 'anonymous' || caller === 'revoked token' || caller === 'deactivated user';
+	const signedOut =
+		caller === 'anonymous' || caller === 'revoked token' || caller === 'deactivated user';
 	if (signedOut) return isApi ? '401' : 'sign-in';
 	// The token is the owner's; tokens open the API only.
 	if (caller === 'api token') return isApi && allowed.includes('owner') ? 'through' : '403';
@@ -186,7 +181,7 @@ beforeAll(async () => {
 				[owner.company_id]
 			)
 		).rows[0];
-		for (let i = 0; i < CELLS.length; i++) {
+		for (let i = 0; i < CELLS.length + 8; i++) {
 			const token = newSessionToken();
 			await db.query(
 				`insert into sessions (id, user_id, company_id, expires_at)
@@ -217,8 +212,9 @@ beforeAll(async () => {
 		return res.json();
 	};
 	const facets = planFacetsOf(site.houseId!);
-	ids.roofPlan = (await post('/api/roof-plans', { siteId: site.id, facets, baseVersion: null }))
-		.plan.id;
+	ids.roofPlan = (
+		await post('/api/roof-plans', { siteId: site.id, facets, baseVersion: null })
+	).plan.id;
 	ids.estimate = (
 		await post('/api/estimates', { ...sceneRequest(site.houseId!), siteId: site.id, save: true })
 	).estimate.id;
@@ -228,9 +224,7 @@ afterAll(async () => server?.stop());
 describe('the access matrix', () => {
 	it('has an expected answer for every route under src/routes, and no more', () => {
 		expect(routes.map((r) => r.pattern).filter((p) => !(p in EXPECTED))).toEqual([]);
-		expect(Object.keys(EXPECTED).filter((p) => !routes.some((r) => r.pattern === p))).toEqual(
-			[]
-		);
+		expect(Object.keys(EXPECTED).filter((p) => !routes.some((r) => r.pattern === p))).toEqual([]);
 	});
 
 	it('answers every route, method and caller as the table expects', async () => {
@@ -261,11 +255,38 @@ describe('the access matrix', () => {
 				const got = outcomeOf(res.status, res.headers.get('location'));
 				const want = expected(cell, caller);
 				line.push(`${caller}=${res.status}${got === want ? '' : ` (want ${want})`}`);
-				if (got !== want) wrong.push(`${cell.method} ${path} as ${caller}: ${res.status}, want ${want}`);
+				if (got !== want)
+					wrong.push(`${cell.method} ${path} as ${caller}: ${res.status}, want ${want}`);
 			}
 			rows.push(`${cell.method.padEnd(6)} ${path}\n    ${line.join('  ')}`);
 		}
 		if (wrong.length) console.log(`Access matrix:\n${rows.join('\n')}`);
+		expect(wrong).toEqual([]);
+	});
+
+	it('answers paths that lead to no route: sign-in or 401 when signed out, 404 when signed in', async () => {
+		const wrong: string[] = [];
+		const paths = ['/new-thing', '/api/new-thing', '/sites/not-an-id', '/api/team/export'];
+		for (const p of paths) {
+			for (const caller of CALLERS) {
+				const signedOut = ['anonymous', 'revoked token', 'deactivated user'].includes(caller);
+				const want = signedOut ? (p.startsWith('/api/') ? 401 : 303) : 404;
+				const res = await fetch(server.url + p, {
+					redirect: 'manual',
+					headers: {
+						accept: p.startsWith('/api/') ? 'application/json' : 'text/html',
+						...(await authFor(caller, {
+							route: routes[0],
+							method: 'GET',
+							path: () => p,
+							form: false
+						}))
+					}
+				});
+				await res.arrayBuffer();
+				if (res.status !== want) wrong.push(`GET ${p} as ${caller}: ${res.status}, want ${want}`);
+			}
+		}
 		expect(wrong).toEqual([]);
 	});
 });
