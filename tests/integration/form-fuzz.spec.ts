@@ -460,6 +460,61 @@ describe('form actions under fuzz', () => {
 		});
 	}
 
+	it('refuses a NUL in stored free text with a field message (a 500 the fuzz found)', async () => {
+		// PostgreSQL documents that text values cannot contain the NUL character
+		// (https://www.postgresql.org/docs/current/datatype-character.html); the write used to fail.
+		const nul = 'a\u0000b';
+		const form = (o: Record<string, string>): Body => ({
+			encoding: 'urlencoded',
+			fields: Object.entries(o).map(([k, v]) => [k, { kind: 'text', v }])
+		});
+		const tries: [string, string, Record<string, string>, () => Promise<string>][] = [
+			['/team?/token', ownerCookie, { name: nul }, teamFingerprint],
+			[
+				'/team?/invite',
+				ownerCookie,
+				{
+					name: nul,
+					email: 'nul.name@harborpine.example',
+					role: 'sales',
+					password: 'a-long-first-password'
+				},
+				teamFingerprint
+			],
+			[
+				'/sites/new',
+				estimatorCookie,
+				{ ...CASES[1].valid(), notes: nul },
+				async () => (await getText('/api/sites', ownerCookie)).text
+			],
+			[
+				'/sites/new',
+				estimatorCookie,
+				{ ...CASES[1].valid(), customerName: nul },
+				async () => (await getText('/api/sites', ownerCookie)).text
+			],
+			[
+				'/settings?/imagery',
+				ownerCookie,
+				{ template: '', attribution: nul },
+				async () => (await getText('/settings/__data.json', ownerCookie)).text
+			],
+			[
+				'/rates?/save',
+				ownerCookie,
+				{ ...cardToForm(DEFAULT_RATE_CARD), note: nul },
+				async () => (await getText('/api/rate-cards', ownerCookie)).text
+			]
+		];
+		for (const [path, cookie, body, fingerprint] of tries) {
+			const was = await fingerprint();
+			const r = await post(path, cookie, form(body));
+			expect(r.status, path).toBe(400);
+			expect(r.text, path).toContain('Remove the control character (NUL) from this text.');
+			expect(await fingerprint(), path).toBe(was);
+		}
+	});
+
 	it('/sign-out: any body signs out and nothing answers 5xx', async () => {
 		await fc.assert(
 			fc.asyncProperty(
