@@ -6,7 +6,7 @@ import {
 	type ServerInit
 } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
-import { rolesFor } from '$lib/roles';
+import { PUBLIC, isPublicFile, rolesForRoute, routePattern } from '$lib/roles';
 import { closeDb, getDb } from '$lib/server/db';
 import { DataDirLockedError } from '$lib/server/db/lock';
 import { ConfigError } from '$lib/server/env';
@@ -34,8 +34,6 @@ export const init: ServerInit = async () => {
 	});
 };
 
-const PUBLIC = ['/sign-in', '/tiles/', '/api/health', '/favicon.svg'];
-
 const handleSession: Handle = async ({ event, resolve }) => {
 	const { user, sessionId } = await resolveCaller(event);
 	event.locals.user = user;
@@ -43,21 +41,27 @@ const handleSession: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
-/** One place decides who may open what; each load and endpoint checks again. */
-const guardRoutes: Handle = async ({ event, resolve }) => {
+/**
+ * One place decides who may open what (ACCESS in $lib/roles); each load and endpoint checks
+ * again. It judges the route SvelteKit matched (`event.route.id`, decoded and set before
+ * `handle` runs), never the raw path, and fails closed: a route with no row is refused.
+ */
+export const guardRoutes: Handle = async ({ event, resolve }) => {
 	const path = event.url.pathname;
-	if (PUBLIC.some((p) => path === p || (p.endsWith('/') && path.startsWith(p)))) {
-		return resolve(event);
-	}
-	if (path.startsWith('/_app/')) return resolve(event);
+	const routeId = event.route.id;
+	const access = routeId === null ? undefined : rolesForRoute(routeId);
+	if (access === PUBLIC || (routeId === null && isPublicFile(path))) return resolve(event);
 	const user = event.locals.user;
-	const isApi = path.startsWith('/api/');
+	const isApi = (routeId === null ? path : routePattern(routeId)).startsWith('/api/');
+	// Signed out: sign in first, whether or not the path leads anywhere, so a stranger learns
+	// nothing about which routes exist.
 	if (!user) {
 		if (isApi) error(401, 'Sign in first, or send an API token as "Authorization: Bearer …".');
 		redirect(303, `/sign-in?next=${encodeURIComponent(path + event.url.search)}`);
 	}
-	const roles = rolesFor(path);
-	if (!roles || !roles.includes(user.role)) {
+	// Signed in and no route: SvelteKit answers 404; there is nothing behind it to guard.
+	if (routeId === null) return resolve(event);
+	if (!access || !access.includes(user.role)) {
 		error(403, `Your role (${user.role}) can't open this page.`);
 	}
 	// Bearer tokens are for the API only; a token never opens the app's pages.

@@ -9,56 +9,120 @@ export const ROLE_LABELS: Record<Role, string> = {
 	crew: 'Crew'
 };
 
-export type NavItem = { href: string; label: string; roles: readonly Role[] };
+export type NavItem = { href: string; label: string };
 
 const OFFICE = ['owner', 'estimator', 'sales'] as const;
 
-export const NAV: readonly NavItem[] = [
-	{ href: '/', label: 'Today', roles: ROLES },
-	{ href: '/sites', label: 'Sites', roles: OFFICE },
-	{ href: '/estimates', label: 'Estimates', roles: OFFICE },
-	{ href: '/crew', label: 'Crew sheets', roles: ['owner', 'crew'] },
-	{ href: '/rates', label: 'Rates', roles: ['owner'] },
-	{ href: '/team', label: 'Team', roles: ['owner'] },
-	{ href: '/settings', label: 'Settings', roles: ['owner'] }
-];
+/** Anyone may open a public route, signed in or not. */
+export const PUBLIC = 'public';
+export type Access = readonly Role[] | typeof PUBLIC;
 
 /**
- * Path prefixes and the roles allowed there, most specific first. The server guard
- * refuses anything not listed here for a signed-in user, so a new route must be added.
+ * Every route of the app and who may open it, public ones included: one row per route, by its
+ * URL pattern (the folder under src/routes with `(group)` segments dropped and `[name=matcher]`
+ * written `[name]`). The server guard looks up the route SvelteKit matched, so:
+ * a route with no row is refused to every role (403), a signed-out caller is sent to sign in
+ * (401 on /api/) wherever the path leads, and a signed-in caller gets SvelteKit's 404 for a path
+ * that matches no route. A row covers the route's page, its form actions and its endpoint
+ * methods; each load, action and endpoint checks the role again with requireRole().
+ * tests/unit/access/route-table.spec.ts fails when a route has no row or a row no route.
  */
-export const ACCESS: readonly { prefix: string; roles: readonly Role[] }[] = [
-	{ prefix: '/api/team', roles: ['owner'] },
-	{ prefix: '/api/tokens', roles: ['owner'] },
-	{ prefix: '/api/settings', roles: ['owner'] },
-	{ prefix: '/api/rate-cards', roles: OFFICE },
-	{ prefix: '/api/estimates', roles: OFFICE },
-	{ prefix: '/api/sites', roles: OFFICE },
-	{ prefix: '/api/roof-plans', roles: OFFICE },
-	{ prefix: '/api/me', roles: ROLES },
-	{ prefix: '/api/docs', roles: OFFICE },
-	{ prefix: '/api/openapi.json', roles: OFFICE },
-	{ prefix: '/sites', roles: OFFICE },
-	{ prefix: '/estimates', roles: OFFICE },
-	{ prefix: '/crew', roles: ['owner', 'crew'] },
-	{ prefix: '/rates', roles: ['owner'] },
-	{ prefix: '/team', roles: ['owner'] },
-	{ prefix: '/settings', roles: ['owner'] },
-	{ prefix: '/account', roles: ROLES },
-	{ prefix: '/sign-out', roles: ROLES },
-	{ prefix: '/', roles: ROLES }
+export const ACCESS: readonly { route: string; roles: Access }[] = [
+	{ route: '/', roles: ROLES },
+	{ route: '/sign-in', roles: PUBLIC },
+	{ route: '/sign-out', roles: ROLES },
+	{ route: '/account', roles: ROLES },
+	{ route: '/sites', roles: OFFICE },
+	{ route: '/sites/new', roles: OFFICE },
+	{ route: '/sites/[id]', roles: OFFICE },
+	{ route: '/sites/[id]/roof', roles: OFFICE },
+	{ route: '/estimates', roles: OFFICE },
+	{ route: '/estimates/[id]', roles: OFFICE },
+	{ route: '/crew', roles: ['owner', 'crew'] },
+	{ route: '/rates', roles: ['owner'] },
+	{ route: '/team', roles: ['owner'] },
+	{ route: '/settings', roles: ['owner'] },
+	{ route: '/api/health', roles: PUBLIC },
+	{ route: '/api/me', roles: ROLES },
+	{ route: '/api/docs', roles: OFFICE },
+	{ route: '/api/openapi.json', roles: OFFICE },
+	{ route: '/api/estimates', roles: OFFICE },
+	{ route: '/api/estimates/[id]', roles: OFFICE },
+	{ route: '/api/rate-cards', roles: OFFICE },
+	{ route: '/api/roof-plans', roles: OFFICE },
+	{ route: '/api/roof-plans/[id]', roles: OFFICE },
+	{ route: '/api/sites', roles: OFFICE },
+	{ route: '/api/sites/[id]', roles: OFFICE },
+	{ route: '/api/sites/[id]/roof-plans', roles: OFFICE },
+	{ route: '/api/sites/[id]/roof-plans/[version]', roles: OFFICE },
+	{ route: '/api/team', roles: ['owner'] },
+	// The bundled sample imagery: generated pictures of an invented town, no company data.
+	{ route: '/tiles/tiles.json', roles: PUBLIC },
+	{ route: '/tiles/[z]/[x]/[y]', roles: PUBLIC }
 ];
 
-export function rolesFor(pathname: string): readonly Role[] | undefined {
-	const hit = ACCESS.find(
-		(a) =>
-			pathname === a.prefix ||
-			a.prefix === '/' ||
-			pathname.startsWith(a.prefix.endsWith('/') ? a.prefix : a.prefix + '/')
-	);
-	return hit?.roles;
+/** Paths SvelteKit serves from outside src/routes (built assets); open like a public row. */
+export const PUBLIC_FILES: readonly string[] = ['/_app/', '/favicon.svg'];
+
+export function isPublicFile(pathname: string): boolean {
+	return PUBLIC_FILES.some((p) => (p.endsWith('/') ? pathname.startsWith(p) : pathname === p));
 }
 
+/** A SvelteKit route id as the table's URL pattern: `/(app)/sites/[id=id]` → `/sites/[id]`. */
+export function routePattern(routeId: string): string {
+	const segs = routeId
+		.split('/')
+		.filter((s) => s !== '' && !/^\(.+\)$/.test(s))
+		.map((s) => s.replace(/\[(\.\.\.)?(\w+)=\w+\]/g, '[$1$2]'));
+	return '/' + segs.join('/');
+}
+
+const BY_ROUTE = new Map(ACCESS.map((a) => [a.route, a.roles]));
+
+/** Who may open the route SvelteKit matched; `undefined` (refused) for a route with no row. */
+export function rolesForRoute(routeId: string): Access | undefined {
+	return BY_ROUTE.get(routePattern(routeId));
+}
+
+const PARAM = /^\[\w+\]$/;
+
+/**
+ * Who may open a concrete path, for links and tests: `[param]` matches one non-empty segment,
+ * and a static segment beats a parameter (`/sites/new` before `/sites/[id]`), as in SvelteKit.
+ */
+export function rolesFor(pathname: string): Access | undefined {
+	const segs = pathname === '/' ? [] : pathname.slice(1).split('/');
+	let best: { roles: Access; params: number } | undefined;
+	for (const a of ACCESS) {
+		const pat = a.route === '/' ? [] : a.route.slice(1).split('/');
+		if (pat.length !== segs.length) continue;
+		let params = 0;
+		const hit = pat.every((p, i) => {
+			if (PARAM.test(p)) return segs[i] !== '' && ++params > 0;
+			return p === segs[i];
+		});
+		if (hit && (!best || params < best.params)) best = { roles: a.roles, params };
+	}
+	return best?.roles;
+}
+
+/** May this role open the path? Public rows are open to every role. */
+export function mayOpen(role: Role, pathname: string): boolean {
+	const access = rolesFor(pathname);
+	return access === PUBLIC || (access?.includes(role) ?? false);
+}
+
+const NAV: readonly NavItem[] = [
+	{ href: '/', label: 'Today' },
+	{ href: '/sites', label: 'Sites' },
+	{ href: '/estimates', label: 'Estimates' },
+	{ href: '/crew', label: 'Crew sheets' },
+	{ href: '/rates', label: 'Rates' },
+	{ href: '/team', label: 'Team' },
+	{ href: '/settings', label: 'Settings' }
+];
+
+/** The links a role sees: read from ACCESS, so a link never offers what the guard refuses. */
 export function navFor(role: Role): NavItem[] {
-	return NAV.filter((n) => n.roles.includes(role));
+	return NAV.filter((n) => mayOpen(role, n.href));
 }

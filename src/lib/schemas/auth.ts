@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { ROLES } from '$lib/roles';
+import { NO_NUL, NUL_MESSAGE } from './form';
 
 export const email = z
 	.string({ error: 'Enter an e-mail address.' })
@@ -20,7 +21,12 @@ export const signInSchema = z.object({
 });
 
 export const inviteSchema = z.object({
-	name: z.string().trim().min(1, 'Enter a name.').max(120, 'Keep the name under 120 characters.'),
+	name: z
+		.string()
+		.trim()
+		.min(1, 'Enter a name.')
+		.max(120, 'Keep the name under 120 characters.')
+		.regex(NO_NUL, NUL_MESSAGE),
 	email,
 	role: z.enum(ROLES, { error: `Choose a role: ${ROLES.join(', ')}.` }),
 	password: newPassword
@@ -42,5 +48,10 @@ export const changePasswordSchema = z
 	.refine((v) => v.next === v.confirm, { path: ['confirm'], message: 'The passwords differ.' });
 
 export const tokenSchema = z.object({
-	name: z.string().trim().min(1, 'Name the token.').max(80, 'Keep the name under 80 characters.')
+	name: z
+		.string()
+		.trim()
+		.min(1, 'Name the token.')
+		.max(80, 'Keep the name under 80 characters.')
+		.regex(NO_NUL, NUL_MESSAGE)
 });

@@ -1,10 +1,12 @@
 import { z } from 'zod';
+import { NO_NUL, NUL_MESSAGE } from './form';
 
 const optionalText = (max: number, label: string) =>
 	z
 		.string()
 		.trim()
 		.max(max, `${label} is too long (max ${max} characters).`)
+		.regex(NO_NUL, NUL_MESSAGE)
 		.optional()
 		.transform((v) => (v ? v : undefined));
 
@@ -16,7 +18,12 @@ const coord = (min: number, max: number, label: string) =>
 		.max(max, `${label} must be between ${min} and ${max}.`);
 
 export const siteSchema = z.object({
-	customerName: z.string().trim().min(1, 'Enter the customer’s name.').max(120),
+	customerName: z
+		.string()
+		.trim()
+		.min(1, 'Enter the customer’s name.')
+		.max(120)
+		.regex(NO_NUL, NUL_MESSAGE),
 	customerEmail: z
 		.string()
 		.trim()
@@ -25,7 +32,12 @@ export const siteSchema = z.object({
 		.transform((v) => (v ? v : undefined))
 		.pipe(z.email('Enter a valid e-mail address.').optional()),
 	customerPhone: optionalText(40, 'Phone'),
-	address: z.string().trim().min(3, 'Enter the street address.').max(200),
+	address: z
+		.string()
+		.trim()
+		.min(3, 'Enter the street address.')
+		.max(200)
+		.regex(NO_NUL, NUL_MESSAGE),
 	lat: coord(-90, 90, 'Latitude'),
 	lon: coord(-180, 180, 'Longitude'),
 	notes: optionalText(2000, 'Notes'),
