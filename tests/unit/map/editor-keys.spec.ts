@@ -22,7 +22,12 @@ const press = (key: string, target: KeyTarget = 'map', mods: Partial<KeyPress> =
 	altKey: false,
 	...mods
 });
-const browse: EditorKeyState = { readOnly: false, drawing: false, hasSelection: false, mode: 'browse' };
+const browse: EditorKeyState = {
+	readOnly: false,
+	drawing: false,
+	hasSelection: false,
+	mode: 'browse'
+};
 const selected: EditorKeyState = { ...browse, hasSelection: true };
 const drawing: EditorKeyState = { ...browse, drawing: true, mode: 'draw' };
 const name = (e: KeyPress, s: EditorKeyState) => editorKey(e, s)?.command.name ?? null;
