@@ -1,5 +1,6 @@
-// The Estimates list filters in place (no page load), and an estimate page shows its chart,
-// line items and status actions, in Chromium against the built server.
+// The Estimates list is rendered on the server from the address bar (filters and page in the URL),
+// filters in place with JavaScript, pages through links; an estimate page shows its chart, line
+// items and status actions. In Chromium against the built server.
 import type { BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openBrowser, signInAs } from '../helpers/browser';
@@ -64,13 +65,64 @@ describe('Estimates list', () => {
 		await page.getByLabel('Status').selectOption('ready');
 		await page.getByText('No estimates match').waitFor();
 		expect(new URL(page.url()).searchParams.get('status')).toBe('ready');
-		await page.getByRole('button', { name: 'Clear the filters' }).click();
+		await page.getByRole('link', { name: 'Clear the filters' }).click();
 		await waitRows(4);
 		expect(new URL(page.url()).search).toBe('');
 
 		// Still the first document: no navigation happened, and the marker survived.
 		expect(await page.evaluate(() => performance.getEntriesByType('navigation').length)).toBe(1);
 		expect(await page.evaluate(() => (window as unknown as { __stay?: number }).__stay)).toBe(42);
+	});
+
+	it('sends the rows in the first HTML response, before any script runs', async () => {
+		const res = await page.request.get(`${server.url}/estimates?text=alder`);
+		expect(res.status()).toBe(200);
+		const html = await res.text();
+		expect(html.match(/data-testid="estimate-row"/g)?.length).toBe(2);
+		expect(html).toContain('Alder Loop');
+		expect(html).not.toContain('Loading estimates');
+		expect(html).toContain('1–2 of 2');
+	});
+
+	it('keeps a filter through a reload, since it is in the URL', async () => {
+		await page.goto(`${server.url}/estimates`);
+		await waitRows(4);
+		await page.getByLabel('Status').selectOption('draft');
+		await page.waitForURL((u) => u.searchParams.get('status') === 'draft');
+		await page.reload();
+		await waitRows(4);
+		expect(await page.getByLabel('Status').inputValue()).toBe('draft');
+		expect(new URL(page.url()).searchParams.get('status')).toBe('draft');
+	});
+
+	it('filters with a plain GET form when JavaScript is off', async () => {
+		const noJs = await openBrowser({ width: 1280, height: 900 });
+		try {
+			const p = noJs.pages()[0] ?? (await noJs.newPage());
+			await signInAs(p, server.url, DEMO.estimator);
+			await noJs.route('**/_app/**/*.js', (r) => r.abort());
+			await p.goto(`${server.url}/estimates`);
+			expect(await p.getByTestId('estimate-row').count()).toBe(4);
+			await p.getByLabel('Address or customer').fill('alder');
+			await Promise.all([
+				p.waitForURL(/text=alder/),
+				p.getByRole('button', { name: 'Apply' }).click()
+			]);
+			expect(await p.getByTestId('estimate-row').count()).toBe(2);
+		} finally {
+			await noJs.close();
+		}
+	});
+
+	it('reads a bad filter in the link as no filter and says so, never a server error', async () => {
+		const res = await page.goto(`${server.url}/estimates?status=nonsense&page=-3&site=12`);
+		expect(res?.status()).toBe(200);
+		await waitRows(4);
+		expect(await page.getByTestId('estimates-ignored').innerText()).toMatch(
+			/status and site and page number/
+		);
+		const long = await page.request.get(`${server.url}/estimates?text=${'x'.repeat(500)}`);
+		expect(long.status()).toBe(200);
 	});
 
 	it('opens with the filter from the URL', async () => {
@@ -124,5 +176,34 @@ describe('an estimate page', () => {
 				.map(async (u) => (await page.request.get(u)).text())
 		);
 		expect(bodies.some((b) => b.includes('DoughnutController'))).toBe(false);
+	});
+});
+
+describe('Estimates list, more than one page', () => {
+	it('pages through links that keep the filters', async () => {
+		// 19 more drafts of h05 make 21 on Alder Loop: two pages of 20.
+		const site = prep.sites.find((s) => s.houseId === 'h05')!;
+		for (let i = 0; i < 19; i++) {
+			const res = await fetch(`${server.url}/api/estimates`, {
+				method: 'POST',
+				headers: { authorization: `Bearer ${prep.ownerToken}`, 'content-type': 'application/json' },
+				body: JSON.stringify({ ...sceneRequest('h05'), siteId: site.id, save: true })
+			});
+			expect(res.status).toBe(201);
+		}
+		await page.goto(`${server.url}/estimates?text=alder`);
+		await waitRows(20);
+		expect(await page.getByTestId('estimates-count').innerText()).toBe('1–20 of 21');
+		const next = page.getByRole('link', { name: 'Next' });
+		expect(await next.getAttribute('href')).toBe('/estimates?text=alder&page=2');
+		await next.click();
+		await waitRows(1);
+		expect(await page.getByTestId('estimates-count').innerText()).toBe('21–21 of 21');
+		expect(new URL(page.url()).searchParams.get('text')).toBe('alder');
+		expect(await page.getByRole('link', { name: 'Next' }).count()).toBe(0);
+		// A page past the end goes to the last one.
+		await page.goto(`${server.url}/estimates?text=alder&page=9`);
+		await waitRows(1);
+		expect(new URL(page.url()).searchParams.get('page')).toBe('2');
 	});
 });

@@ -389,3 +389,47 @@ describe('the Leaflet fallback', () => {
 		}
 	});
 });
+
+describe('layout', () => {
+	// Common practice, no source: an editor whose map fits the window needs no page scroll to reach
+	// the map's lower edge; below the wide-screen breakpoint the panels stack under the map.
+	it('fills the window below the header with the map at 1280×800, with no page scroll', async () => {
+		const wide = await openBrowser({ width: 1280, height: 800 });
+		try {
+			const p = wide.pages()[0] ?? (await wide.newPage());
+			await signInAs(p, server.url, DEMO.estimator);
+			const siteId = await siteOf(p, 'h03');
+			await openEditor(p, siteId, 'maplibre');
+			const measure = () =>
+				p.evaluate(() => {
+					const header = document.querySelector('main header')!.getBoundingClientRect();
+					const map = document.querySelector('[data-testid="roof-map"]')!.getBoundingClientRect();
+					return {
+						below: innerHeight - header.bottom,
+						map: map.height,
+						scroll: document.scrollingElement!.scrollHeight,
+						inner: innerHeight
+					};
+				});
+			const m = await measure();
+			expect(m.map).toBeGreaterThanOrEqual(0.8 * m.below);
+			expect(m.scroll).toBeLessThanOrEqual(m.inner);
+
+			for (const [width, height] of [
+				[768, 1024],
+				[390, 844]
+			]) {
+				await p.setViewportSize({ width, height });
+				await p.waitForFunction(
+					(w) => innerWidth === w && !!document.querySelector('[data-testid="roof-map"]'),
+					width
+				);
+				const n = await measure();
+				// The panels go below, and the map keeps more than half the window.
+				expect(n.map).toBeGreaterThan(0.5 * n.inner);
+			}
+		} finally {
+			await wide.close();
+		}
+	});
+});

@@ -20,73 +20,13 @@ import './map-labels.css';
 import type { Feature, FeatureCollection, Polygon, Position } from 'geojson';
 import type { PlanFacet } from '../schemas/roof-plan';
 import type { EditorMap, EditorMapOptions, FacetLabel, MapTestHandle } from './editor-map';
-import { EDGE_STYLES, GROWTH_COLOURS, MAX_VIEW_ZOOM_256 } from './imagery';
+import { DRAW_STYLES, growthColour } from './draw-styles';
+import { EDGE_STYLES, MAX_VIEW_ZOOM_256 } from './imagery';
 import { labelPoint } from './label-point';
 import { createSnapIndex, snapPoint, snapTolerancePx, type LonLat, type SnapIndex } from './snap';
 
 /* eslint-disable @typescript-eslint/no-explicit-any */
 type DrawEvent = MapMouseEvent & { featureTarget?: unknown; lngLat: { lng: number; lat: number } };
-
-const ACTIVE = ['==', ['get', 'active'], 'true'];
-const growthColour = [
-	'match',
-	['get', 'user_growth'],
-	...Object.entries(GROWTH_COLOURS).flat(),
-	'#c0693f'
-];
-
-/** Clearpitch's look for facets: fill by growth grade, light outline, clay when selected. */
-const DRAW_STYLES = [
-	{
-		id: 'cp-fill',
-		type: 'fill',
-		filter: ['all', ['==', '$type', 'Polygon']],
-		paint: { 'fill-color': growthColour, 'fill-opacity': ['case', ACTIVE, 0.5, 0.38] }
-	},
-	{
-		id: 'cp-casing',
-		type: 'line',
-		filter: ['any', ['==', '$type', 'LineString'], ['==', '$type', 'Polygon']],
-		layout: { 'line-cap': 'round', 'line-join': 'round' },
-		paint: { 'line-color': '#1b2229', 'line-width': ['case', ACTIVE, 7, 4], 'line-opacity': 0.6 }
-	},
-	{
-		id: 'cp-outline',
-		type: 'line',
-		filter: ['any', ['==', '$type', 'LineString'], ['==', '$type', 'Polygon']],
-		layout: { 'line-cap': 'round', 'line-join': 'round' },
-		paint: {
-			'line-color': ['case', ACTIVE, '#ffb37a', '#fbfaf7'],
-			'line-width': ['case', ACTIVE, 4, 2]
-		}
-	},
-	{
-		id: 'cp-midpoint',
-		type: 'circle',
-		filter: ['all', ['==', '$type', 'Point'], ['==', 'meta', 'midpoint']],
-		paint: {
-			'circle-radius': 5,
-			'circle-color': '#fbfaf7',
-			'circle-stroke-color': '#1f4d3a',
-			'circle-stroke-width': 2
-		}
-	},
-	{
-		id: 'cp-vertex-halo',
-		type: 'circle',
-		filter: ['all', ['==', '$type', 'Point'], ['==', 'meta', 'vertex']],
-		paint: { 'circle-radius': ['case', ACTIVE, 10, 7], 'circle-color': '#fbfaf7' }
-	},
-	{
-		id: 'cp-vertex',
-		type: 'circle',
-		filter: ['all', ['==', '$type', 'Point'], ['==', 'meta', 'vertex']],
-		paint: {
-			'circle-radius': ['case', ACTIVE, 7, 4.5],
-			'circle-color': ['case', ACTIVE, '#c0693f', '#1f4d3a']
-		}
-	}
-];
 
 let glued = false;
 /** mapbox-gl-draw looks for Mapbox's class names; without CANVAS, Enter and Escape never fire. */

@@ -1,10 +1,49 @@
+import { redirect } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth/guard';
+import { listEstimates } from '$lib/server/services/estimates';
 import { listSites } from '$lib/server/services/sites';
+import {
+	ESTIMATES_PAGE_SIZE,
+	estimateListSearch,
+	readEstimateListFilters
+} from '$lib/schemas/estimate-list-filters';
 import type { PageServerLoad } from './$types';
 
-/** The list itself is fetched by the browser from /api/estimates; this only fills the filters. */
+/** The list comes from the address bar, so a reload, a shared link or no JavaScript show the same rows. */
 export const load: PageServerLoad = async (event) => {
 	const user = requireRole(event, 'owner', 'estimator', 'sales');
-	const sites = await listSites(user.companyId);
-	return { sites: sites.map((s) => ({ id: s.id, address: s.address })) };
+	const { filters, ignored } = readEstimateListFilters(event.url.searchParams);
+	const { page, site, ...rest } = filters;
+	const [sites, list] = await Promise.all([
+		listSites(user.companyId),
+		listEstimates(user.companyId, {
+			...rest,
+			siteId: site,
+			page,
+			pageSize: ESTIMATES_PAGE_SIZE
+		})
+	]);
+	// A page past the end (an old link, or rows gone since): go to the last page instead.
+	if (list.items.length === 0 && list.total > 0 && page > 1) {
+		const last = Math.ceil(list.total / ESTIMATES_PAGE_SIZE);
+		redirect(303, `/estimates${estimateListSearch(filters, last)}`);
+	}
+	return {
+		sites: sites.map((s) => ({ id: s.id, address: s.address })),
+		filters,
+		ignored,
+		list: {
+			...list,
+			items: list.items.map((e) => ({
+				id: e.id,
+				status: e.status,
+				address: e.address,
+				customerName: e.customerName,
+				totalCents: e.totalCents,
+				squares: e.squares,
+				rateCardVersion: e.rateCardVersion,
+				createdAt: e.createdAt.toISOString()
+			}))
+		}
+	};
 };

@@ -6,6 +6,8 @@ import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
 	const user = requireRole(event, 'owner', 'estimator', 'sales');
+	// The editor refreshes its version list after a save with invalidate('app:roof-plan').
+	event.depends('app:roof-plan');
 	const site = await getSiteDetail(user.companyId, event.params.id);
 	if (!site) error(404, 'No such site.');
 	const asked = event.url.searchParams.get('version');
