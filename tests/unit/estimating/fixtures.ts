@@ -53,8 +53,8 @@ export function geographicLibAreaM2(polygon: Polygon): number {
 	return Math.abs(p.Compute(false, true).area!);
 }
 
-/** Invented demo location (Wrenfield is an invented town; the coordinates are arbitrary). */
-export const WRENFIELD = { lat: 44.9, lon: -93.1 };
+/** Invented demo location: the sample scene's open-sea coordinates, where no real town stands. */
+export const WRENFIELD = { lat: 35.52, lon: -74.46 };
 
 export function facet(overrides: Partial<FacetInput> & { polygon: Polygon }): FacetInput {
 	return {
