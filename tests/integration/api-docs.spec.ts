@@ -49,7 +49,12 @@ describe('/api/openapi.json', () => {
 			'patch'
 		]);
 		const req = doc.components.schemas.EstimateRequest;
-		expect(req.required).toContain('facets');
+		// facets or roofPlanId, never both: the schema cannot say "one of" with refinements, so
+		// the operation's description does, and both fields are in the schema.
+		expect(req.required ?? []).not.toContain('facets');
+		expect(req.properties.roofPlanId).toMatchObject({ type: 'string', format: 'uuid' });
+		expect(doc.paths['/api/estimates'].post.description).toMatch(/roofPlanId/);
+		expect(doc.paths['/api/estimates'].post.description).toMatch(/never both/);
 		const facet = req.properties.facets.items;
 		expect(facet.properties.pitch).toMatchObject({ type: 'number', minimum: 0, maximum: 24 });
 		expect(facet.properties.material.enum).toEqual([

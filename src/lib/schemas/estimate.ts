@@ -212,9 +212,10 @@ const uuid = (field: string) => z.uuid({ error: `${field} must be a UUID` });
 
 export const estimateRequestSchema = strict('the request body', {
 	facets: z
-		.array(facetSchema, { error: required('facets', 'an array of facets') })
+		.array(facetSchema, { error: 'facets must be an array of facets' })
 		.min(1, { error: 'facets must list at least one facet' })
-		.max(MAX_FACETS, { error: `facets may list at most ${MAX_FACETS} facets` }),
+		.max(MAX_FACETS, { error: `facets may list at most ${MAX_FACETS} facets` })
+		.optional(),
 	siteId: uuid('siteId').optional(),
 	roofPlanId: uuid('roofPlanId').optional(),
 	rateCardId: uuid('rateCardId').optional(),
@@ -234,8 +235,24 @@ export const estimateRequestSchema = strict('the request body', {
 	}).optional(),
 	save: z.boolean({ error: 'save must be true or false' }).optional()
 }).superRefine((body, ctx) => {
+	// A roofPlanId alone means "price that stored plan version"; with facets as well it would be
+	// unclear which of the two was priced and stored, so the body must choose.
+	if (body.facets === undefined && body.roofPlanId === undefined) {
+		ctx.addIssue({
+			code: 'custom',
+			path: ['facets'],
+			message: 'facets is required (or send roofPlanId to price a saved roof plan)'
+		});
+	} else if (body.facets !== undefined && body.roofPlanId !== undefined) {
+		ctx.addIssue({
+			code: 'custom',
+			path: ['facets'],
+			message:
+				'send facets or roofPlanId, not both: with roofPlanId the server prices that roof plan’s saved facets'
+		});
+	}
 	const seen = new Set<string>();
-	body.facets.forEach((f, i) => {
+	body.facets?.forEach((f, i) => {
 		if (seen.has(f.id)) {
 			ctx.addIssue({
 				code: 'custom',
@@ -245,6 +262,8 @@ export const estimateRequestSchema = strict('the request body', {
 		}
 		seen.add(f.id);
 	});
+	// With a roofPlanId the facets are not known yet; the pricing step checks them with the plan's.
+	if (body.facets === undefined) return;
 	body.testSpot?.facetIds?.forEach((id, k) => {
 		if (!seen.has(id)) {
 			ctx.addIssue({
@@ -259,10 +278,12 @@ export const estimateRequestSchema = strict('the request body', {
 export type EstimateRequest = z.infer<typeof estimateRequestSchema>;
 export type FacetRequest = z.infer<typeof facetSchema>;
 
-/** The model's input part of a parsed request (drops siteId, rateCardId, save…). */
+/** The model's input part of a parsed request with its facets (drops siteId, rateCardId, save…). */
 export function toEstimateInput(body: EstimateRequest): EstimateInput {
-	const { siteId: _s, roofPlanId: _r, rateCardId: _c, save: _v, ...input } = body;
-	return input;
+	const { siteId: _s, roofPlanId: _r, rateCardId: _c, save: _v, facets, ...input } = body;
+	// The pricing step fills in a roof plan's facets before it prices; none here is a slip.
+	if (!facets) throw new Error('toEstimateInput needs the facets (load the roof plan first)');
+	return { ...input, facets };
 }
 
 /** Issues as the API returns them: { path: 'facets.2.polygon', message }. */

@@ -101,4 +101,36 @@ describe('priceRequest', () => {
 		});
 		if (o.kind === 'save') expect(o.input).not.toHaveProperty('save');
 	});
+
+	it('asks for the roof plan a body names, then prices its facets as if they were sent', () => {
+		const PLAN_ID = '2a3b4c5d-6e7f-4a8b-9c0d-1e2f3a4b5c6d';
+		const body = { roofPlanId: PLAN_ID, siteId: SITE_ID, save: true, discountPct: 5 };
+		expect(run(body)).toEqual({ kind: 'needs-plan', roofPlanId: PLAN_ID, siteId: SITE_ID });
+		// Another plan than the one asked for is not taken for it.
+		const wrong = { id: OTHER_ID, facets: gableRoof() };
+		expect(priceRequest({ body: bytes(body), card: cardRef(), plan: wrong }).kind).toBe(
+			'needs-plan'
+		);
+		const o = priceRequest({
+			body: bytes(body),
+			card: cardRef(),
+			plan: { id: PLAN_ID, facets: gableRoof() }
+		});
+		if (o.kind !== 'save') throw new Error(`expected a save, got ${o.kind}`);
+		expect(o.roofPlanId).toBe(PLAN_ID);
+		const sent = estimate(
+			toEstimateInput(estimateRequestSchema.parse({ facets: gableRoof(), discountPct: 5 })),
+			DEFAULT_RATE_CARD
+		);
+		expect(o.result).toEqual(sent);
+	});
+
+	it('refuses facets and a roofPlanId together, and neither', () => {
+		const PLAN_ID = '2a3b4c5d-6e7f-4a8b-9c0d-1e2f3a4b5c6d';
+		expect(refusal(run({ facets: gableRoof(), roofPlanId: PLAN_ID })).issues?.[0]).toMatchObject({
+			path: 'facets',
+			message: expect.stringMatching(/not both/)
+		});
+		expect(refusal(run({ siteId: SITE_ID })).issues?.[0].path).toBe('facets');
+	});
 });

@@ -1,5 +1,5 @@
 import { and, count, eq } from 'drizzle-orm';
-import { estimateFacetsOf, planFacetsOf } from '../../../../geodata/scene';
+import { planFacetsOf } from '../../../../geodata/scene';
 import type { Role } from '$lib/roles';
 import { savePlanSchema } from '$lib/schemas/roof-plan';
 import { getDb } from '../db';
@@ -57,13 +57,8 @@ export async function seedSamples(
 		if (!saved.ok) throw new Error(`Sample roof plan for ${sample.houseId}: ${saved.reason}`);
 		made.plans += 1;
 
-		// Priced the way the API prices: the same checks, the same card, the same store.
-		const body = {
-			siteId: site.id,
-			roofPlanId: saved.plan.id,
-			save: true,
-			facets: estimateFacetsOf(sample.houseId)
-		};
+		// Priced the way the API prices: from the saved plan, with the same checks, card and store.
+		const body = { siteId: site.id, roofPlanId: saved.plan.id, save: true };
 		const done = await priceEstimateBody(caller, new TextEncoder().encode(JSON.stringify(body)));
 		if (!done.saved) throw new Error(`the sample estimate for ${sample.houseId} was not saved`);
 		made.estimates += 1;

@@ -6,7 +6,9 @@ import { getDb } from '../db';
 import type { EstimateStatus } from '../../estimate-status';
 import { customers, estimates, sites, users } from '../db/schema';
 import { latestRateCard, NoRateCardError, rateCardById, type StoredRateCard } from './rate-cards';
-import type { CardRef, PriceOutcome } from '../pricing/price-request';
+import type { CardRef, PlanRef, PriceOutcome, PriceTask } from '../pricing/price-request';
+import type { PlanFacet } from '../../schemas/roof-plan';
+import { getPlanById } from './roof-plans';
 import { runPricing } from '../pricing/pool';
 
 export type { EstimateStatus };
@@ -74,6 +76,28 @@ async function assertSite(companyId: string, siteId: string) {
 	if (!site) throw invalid([{ path: 'siteId', message: 'siteId is not one of your sites' }]);
 }
 
+/**
+ * The roof plan a body names, as the pricing step takes it: refused (400, roofPlanId) unless it
+ * is one of the company's plans and, when the body names a site, a plan of that site.
+ */
+async function planFor(companyId: string, planId: string, siteId: string | null): Promise<PlanRef> {
+	const plan = await getPlanById(companyId, planId);
+	if (!plan) {
+		throw invalid([{ path: 'roofPlanId', message: 'roofPlanId is not one of your roof plans' }]);
+	}
+	if (siteId !== null && plan.siteId !== siteId) {
+		throw invalid([
+			{ path: 'roofPlanId', message: 'roofPlanId is a roof plan of another site than siteId' }
+		]);
+	}
+	return { id: plan.id, facets: plan.facets.map(toRequestFacet) };
+}
+
+/** A stored plan facet as /api/estimates takes it. */
+function toRequestFacet({ geometry, label, ...f }: PlanFacet) {
+	return { ...f, ...(label ? { label } : {}), polygon: geometry };
+}
+
 /** Stores a priced request as a draft for its site, frozen with its input, result and card. */
 async function storeDraft(
 	caller: Caller,
@@ -129,16 +153,23 @@ export async function priceEstimateBody(
 	body: Uint8Array
 ): Promise<{ saved: false; json: Uint8Array } | { saved: true; priced: PricedEstimate }> {
 	const latest = await latestOrNull(caller.companyId);
-	let outcome = await runPricing({ body, card: latest && cardRef(latest) });
-	if (outcome.kind === 'needs-card') {
-		const card = await cardFor(caller.companyId, outcome.rateCardId ?? undefined);
-		outcome = await runPricing({ body, card: cardRef(card) });
+	const task: PriceTask = { body, card: latest && cardRef(latest) };
+	let outcome = await runPricing(task);
+	// At most one look-up of each kind: a plan (the body names one) and a card (not the latest).
+	for (let round = 0; round < 2; round++) {
+		if (outcome.kind === 'needs-plan') {
+			task.plan = await planFor(caller.companyId, outcome.roofPlanId, outcome.siteId);
+		} else if (outcome.kind === 'needs-card') {
+			task.card = cardRef(await cardFor(caller.companyId, outcome.rateCardId ?? undefined));
+		} else break;
+		outcome = await runPricing(task);
 	}
 	switch (outcome.kind) {
 		case 'refused':
 			throw ApiError.from(outcome.refusal);
 		case 'needs-card':
-			throw new Error('the pricing thread asked twice for a rate card');
+		case 'needs-plan':
+			throw new Error(`the pricing thread asked again (${outcome.kind})`);
 		case 'priced':
 			return { saved: false, json: outcome.json };
 		case 'save':

@@ -1,0 +1,1 @@
+ALTER TABLE "estimates" ADD CONSTRAINT "estimates_roof_plan_id_roof_plans_id_fk" FOREIGN KEY ("roof_plan_id") REFERENCES "public"."roof_plans"("id") ON DELETE no action ON UPDATE no action;
