@@ -3,7 +3,7 @@ import type { Role } from '../../roles';
 import type { EstimateInput, EstimateResult } from '../../estimating/types';
 import { ApiError, invalid } from '../api/errors';
 import { getDb } from '../db';
-import type { EstimateStatus } from '../../estimate-status';
+import { legalNext, rolesForMove, type EstimateStatus } from '../../estimate-status';
 import { customers, estimates, sites, users } from '../db/schema';
 import { latestRateCard, NoRateCardError, rateCardById, type StoredRateCard } from './rate-cards';
 import type { CardRef, PlanRef, PriceOutcome, PriceTask } from '../pricing/price-request';
@@ -12,36 +12,6 @@ import { getPlanById } from './roof-plans';
 import { runPricing } from '../pricing/pool';
 
 export type { EstimateStatus };
-
-/**
- * The moves an estimate can make and who may make them. The owner may make any of them; the
- * estimator readies a draft; sales sends, and records the customer's answer.
- */
-const TRANSITIONS: Record<EstimateStatus, Partial<Record<EstimateStatus, readonly Role[]>>> = {
-	draft: { ready: ['owner', 'estimator'] },
-	ready: { sent: ['owner', 'sales'], draft: ['owner', 'estimator'], expired: ['owner', 'sales'] },
-	sent: {
-		accepted: ['owner', 'sales'],
-		declined: ['owner', 'sales'],
-		expired: ['owner', 'sales']
-	},
-	accepted: { scheduled: ['owner', 'sales'] },
-	scheduled: { done: ['owner'] },
-	done: { paid: ['owner'] },
-	paid: {},
-	declined: {},
-	expired: {}
-};
-
-/** Statuses reachable from `from`, whoever asks. */
-export function legalNext(from: EstimateStatus): EstimateStatus[] {
-	return Object.keys(TRANSITIONS[from]) as EstimateStatus[];
-}
-
-/** Statuses this role may move an estimate to from `from`. */
-export function nextStatusesFor(from: EstimateStatus, role: Role): EstimateStatus[] {
-	return legalNext(from).filter((to) => TRANSITIONS[from][to]!.includes(role));
-}
 
 export type Caller = { id: string; companyId: string; role: Role };
 
@@ -312,7 +282,7 @@ export async function changeStatus(
 	if (!current) throw new ApiError(404, `No estimate with id ${id}.`);
 	const from = current.status;
 	if (from === to) return current;
-	const roles = TRANSITIONS[from][to];
+	const roles = rolesForMove(from, to);
 	if (!roles) {
 		const options = legalNext(from);
 		throw new ApiError(

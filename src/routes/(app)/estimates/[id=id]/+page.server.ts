@@ -3,7 +3,8 @@ import { formObject } from '$lib/schemas/form';
 import { ApiError } from '$lib/server/api/errors';
 import { estimatePatchSchema } from '$lib/server/api/schemas';
 import { requireRole } from '$lib/server/auth/guard';
-import { changeStatus, getEstimate, nextStatusesFor } from '$lib/server/services/estimates';
+import { nextStatusesFor } from '$lib/estimate-status';
+import { changeStatus, getEstimate } from '$lib/server/services/estimates';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {

@@ -3,12 +3,8 @@ import { readJson } from '$lib/server/api/body';
 import { ApiError, answer, zodInvalid } from '$lib/server/api/errors';
 import { estimatePatchSchema } from '$lib/server/api/schemas';
 import { requireRole } from '$lib/server/auth/guard';
-import {
-	changeStatus,
-	getEstimate,
-	nextStatusesFor,
-	type EstimateDetail
-} from '$lib/server/services/estimates';
+import { nextStatusesFor } from '$lib/estimate-status';
+import { changeStatus, getEstimate, type EstimateDetail } from '$lib/server/services/estimates';
 import type { RequestHandler } from './$types';
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
