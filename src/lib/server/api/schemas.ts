@@ -77,6 +77,10 @@ const note = z.object({
 	code: z.string(),
 	message: z.string(),
 	facetIds: z.array(z.string()).optional(),
+	facets: z
+		.array(z.string())
+		.optional()
+		.describe('The same facets by name: the label given, or "Facet 2" for an unlabelled one.'),
 	path: z.string().optional().describe('Input field the note is about, e.g. facets.2.edges.')
 });
 
