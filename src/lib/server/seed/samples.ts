@@ -1,5 +1,5 @@
 import { and, count, eq } from 'drizzle-orm';
-import { planFacetsOf } from '../../../../geodata/scene';
+import { house, planFacetsOf } from '../../../../geodata/scene';
 import type { Role } from '$lib/roles';
 import { savePlanSchema } from '$lib/schemas/roof-plan';
 import { getDb } from '../db';
@@ -35,10 +35,13 @@ export async function seedSamples(
 	const made = { plans: 0, estimates: 0 };
 
 	for (const sample of SAMPLES) {
+		// A scene house's site is the one at its address; the schema knows nothing of the scene.
+		const address = house(sample.houseId)?.properties.address;
+		if (!address) continue;
 		const [site] = await db
 			.select({ id: sites.id })
 			.from(sites)
-			.where(and(eq(sites.companyId, companyId), eq(sites.sceneHouseId, sample.houseId)));
+			.where(and(eq(sites.companyId, companyId), eq(sites.address, address)));
 		if (!site) continue;
 		const [{ n: plansThere }] = await db
 			.select({ n: count() })
