@@ -11,7 +11,7 @@ import {
 	estimatePatchSchema,
 	estimatePricedSchema,
 	rateCardListSchema
-} from './api/schemas';
+} from '../schemas/estimates-api';
 
 type JsonSchema = Record<string, unknown>;
 

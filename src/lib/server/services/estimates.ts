@@ -1,7 +1,8 @@
 import { and, count, desc, eq, ilike, or, sql, type SQL } from 'drizzle-orm';
 import type { Role } from '../../roles';
 import type { EstimateInput, EstimateResult } from '../../estimating/types';
-import { ApiError, invalid } from '../api/errors';
+import { Conflict, Forbidden, Invalid, NotFound } from './errors';
+import type { EstimateDetail, EstimateFilters, EstimateListItem } from '../../types/estimate';
 import { getDb } from '../db';
 import { legalNext, rolesForMove, type EstimateStatus } from '../../estimate-status';
 import { customers, estimates, sites, users } from '../db/schema';
@@ -25,13 +26,13 @@ async function cardFor(companyId: string, rateCardId?: string): Promise<StoredRa
 		try {
 			return await latestRateCard(companyId);
 		} catch (e) {
-			if (e instanceof NoRateCardError) throw new ApiError(409, e.message);
+			if (e instanceof NoRateCardError) throw new Conflict(e.message);
 			throw e;
 		}
 	}
 	const card = await rateCardById(companyId, rateCardId);
 	if (!card) {
-		throw invalid([{ path: 'rateCardId', message: 'rateCardId is not one of your rate cards' }]);
+		throw Invalid.of([{ path: 'rateCardId', message: 'rateCardId is not one of your rate cards' }]);
 	}
 	return card;
 }
@@ -43,7 +44,7 @@ async function assertSite(companyId: string, siteId: string) {
 		.from(sites)
 		.where(and(eq(sites.id, siteId), eq(sites.companyId, companyId)))
 		.limit(1);
-	if (!site) throw invalid([{ path: 'siteId', message: 'siteId is not one of your sites' }]);
+	if (!site) throw Invalid.of([{ path: 'siteId', message: 'siteId is not one of your sites' }]);
 }
 
 /**
@@ -53,10 +54,10 @@ async function assertSite(companyId: string, siteId: string) {
 async function planFor(companyId: string, planId: string, siteId: string | null): Promise<PlanRef> {
 	const plan = await getPlanById(companyId, planId);
 	if (!plan) {
-		throw invalid([{ path: 'roofPlanId', message: 'roofPlanId is not one of your roof plans' }]);
+		throw Invalid.of([{ path: 'roofPlanId', message: 'roofPlanId is not one of your roof plans' }]);
 	}
 	if (siteId !== null && plan.siteId !== siteId) {
-		throw invalid([
+		throw Invalid.of([
 			{ path: 'roofPlanId', message: 'roofPlanId is a roof plan of another site than siteId' }
 		]);
 	}
@@ -115,7 +116,7 @@ async function latestOrNull(companyId: string): Promise<StoredRateCard | null> {
 /**
  * POST /api/estimates from the body as sent: parsing, validation and pricing run on a pricing
  * thread (see pricing/pool.ts), the card lookup and the store here. Answers the priced
- * estimate as UTF-8 JSON, or the saved draft; refusals throw ApiError and write nothing. The
+ * estimate as UTF-8 JSON, or the saved draft; refusals throw Invalid and write nothing. The
  * demo seed prices its samples through here too.
  */
 export async function priceEstimateBody(
@@ -136,7 +137,7 @@ export async function priceEstimateBody(
 	}
 	switch (outcome.kind) {
 		case 'refused':
-			throw ApiError.from(outcome.refusal);
+			throw new Invalid(outcome.refusal.message, outcome.refusal.issues ?? []);
 		case 'needs-card':
 		case 'needs-plan':
 			throw new Error(`the pricing thread asked again (${outcome.kind})`);
@@ -147,27 +148,6 @@ export async function priceEstimateBody(
 			return { saved: true, priced: await storeDraft(caller, outcome) };
 	}
 }
-
-export type EstimateFilters = {
-	status?: EstimateStatus;
-	siteId?: string;
-	text?: string;
-	page: number;
-	pageSize: number;
-};
-
-export type EstimateListItem = {
-	id: string;
-	status: EstimateStatus;
-	siteId: string | null;
-	address: string | null;
-	customerName: string | null;
-	totalCents: number;
-	squares: number;
-	rateCardVersion: number;
-	createdAt: Date;
-	updatedAt: Date;
-};
 
 const escapeLike = (s: string) => s.replace(/[\\%_]/g, (c) => '\\' + c);
 
@@ -215,21 +195,6 @@ export async function listEstimates(
 	]);
 	return { items, total: n, page: f.page, pageSize: f.pageSize };
 }
-
-export type EstimateDetail = {
-	id: string;
-	status: EstimateStatus;
-	siteId: string | null;
-	roofPlanId: string | null;
-	site: { address: string; customerName: string } | null;
-	rateCard: { id: string; version: number };
-	input: EstimateInput;
-	result: EstimateResult;
-	totalCents: number;
-	createdBy: string | null;
-	createdAt: Date;
-	updatedAt: Date;
-};
 
 export async function getEstimate(
 	companyId: string,
@@ -279,22 +244,20 @@ export async function changeStatus(
 	to: EstimateStatus
 ): Promise<EstimateDetail> {
 	const current = await getEstimate(caller.companyId, id);
-	if (!current) throw new ApiError(404, `No estimate with id ${id}.`);
+	if (!current) throw new NotFound(`No estimate with id ${id}.`);
 	const from = current.status;
 	if (from === to) return current;
 	const roles = rolesForMove(from, to);
 	if (!roles) {
 		const options = legalNext(from);
-		throw new ApiError(
-			409,
+		throw new Conflict(
 			`An estimate that is ${from} can't become ${to}` +
 				(options.length ? `; from ${from} it can become ${options.join(', ')}.` : '.'),
 			[{ path: 'status', message: `${from} → ${to} is not allowed` }]
 		);
 	}
 	if (!roles.includes(caller.role)) {
-		throw new ApiError(
-			403,
+		throw new Forbidden(
 			`Moving an estimate from ${from} to ${to} needs the ${roles.join(' or ')} role; you are ${caller.role}.`
 		);
 	}
@@ -311,10 +274,7 @@ export async function changeStatus(
 		)
 		.returning({ id: estimates.id });
 	if (moved.length === 0) {
-		throw new ApiError(
-			409,
-			'Someone changed this estimate at the same time; reload and try again.'
-		);
+		throw new Conflict('Someone changed this estimate at the same time; reload and try again.');
 	}
 	return (await getEstimate(caller.companyId, id))!;
 }

@@ -1,12 +1,7 @@
 import { z } from 'zod';
-import {
-	ACCESS_GRADES,
-	GROWTH_GRADES,
-	MATERIALS,
-	type EstimateResult
-} from '../../estimating/types';
-import { rateCardSchema } from '../../schemas/rate-card';
-import { ESTIMATE_STATUSES } from '../../estimate-status';
+import { ACCESS_GRADES, GROWTH_GRADES, MATERIALS, type EstimateResult } from '../estimating/types';
+import { rateCardSchema } from './rate-card';
+import { ESTIMATE_STATUSES } from '../estimate-status';
 
 /**
  * Query, PATCH and response schemas of the estimates API. The request body schema lives in
