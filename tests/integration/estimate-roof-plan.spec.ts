@@ -157,6 +157,23 @@ describe('an estimate saved from a roofPlanId', () => {
 		);
 	});
 
+	it('takes facets sent along only when they are the plan’s own, and writes nothing otherwise', async () => {
+		const { siteId, planId } = planned[1];
+		const plan = await get(`/api/roof-plans/${planId}`);
+		const facets = plan.json.plan.facets.map(toEstimateFacet);
+		const before = await countRowsLive();
+		const changed = facets.map((f: { pitch: number }, i: number) =>
+			i === 0 ? { ...f, pitch: f.pitch + 1 } : f
+		);
+		const refused = await post({ siteId, roofPlanId: planId, save: true, facets: changed });
+		expect(refused.status).toBe(400);
+		expect(paths(refused.json)).toContain('facets');
+		expect(await countRowsLive()).toBe(before);
+		const same = await post({ siteId, roofPlanId: planId, save: true, facets });
+		expect(same.status).toBe(201);
+		expect(await countRowsLive()).toBe(before + 1);
+	});
+
 	it('refuses a body with neither facets nor a roofPlanId, naming facets', async () => {
 		const r = await post({ siteId: planned[0].siteId, save: true });
 		expect(r.status).toBe(400);

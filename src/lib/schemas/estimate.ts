@@ -189,20 +189,13 @@ export const estimateRequestSchema = strict('the request body', {
 	}).optional(),
 	save: z.boolean({ error: 'save must be true or false' }).optional()
 }).superRefine((body, ctx) => {
-	// A roofPlanId alone means "price that stored plan version"; with facets as well it would be
-	// unclear which of the two was priced and stored, so the body must choose.
+	// A roofPlanId means "price that stored plan version"; facets sent as well must be that
+	// plan's (the pricing step compares them once the plan is loaded).
 	if (body.facets === undefined && body.roofPlanId === undefined) {
 		ctx.addIssue({
 			code: 'custom',
 			path: ['facets'],
 			message: 'facets is required (or send roofPlanId to price a saved roof plan)'
-		});
-	} else if (body.facets !== undefined && body.roofPlanId !== undefined) {
-		ctx.addIssue({
-			code: 'custom',
-			path: ['facets'],
-			message:
-				'send facets or roofPlanId, not both: with roofPlanId the server prices that roof plan’s saved facets'
 		});
 	}
 	const seen = new Set<string>();

@@ -125,12 +125,21 @@ describe('priceRequest', () => {
 		expect(o.result).toEqual(sent);
 	});
 
-	it('refuses facets and a roofPlanId together, and neither', () => {
+	it('takes facets sent with a roofPlanId only when they are that plan’s, and needs one of them', () => {
 		const PLAN_ID = '2a3b4c5d-6e7f-4a8b-9c0d-1e2f3a4b5c6d';
-		expect(refusal(run({ facets: gableRoof(), roofPlanId: PLAN_ID })).issues?.[0]).toMatchObject({
-			path: 'facets',
-			message: expect.stringMatching(/not both/)
+		const plan = { id: PLAN_ID, facets: gableRoof() };
+		const task = (facets: unknown) => ({
+			body: bytes({ facets, roofPlanId: PLAN_ID, siteId: SITE_ID, save: true }),
+			card: cardRef(),
+			plan
 		});
+		expect(priceRequest(task(gableRoof())).kind).toBe('save');
+		const steeper = gableRoof().map((f) => ({ ...f, pitch: f.pitch + 1 }));
+		expect(refusal(priceRequest(task(steeper))).issues?.[0]).toMatchObject({
+			path: 'facets',
+			message: expect.stringMatching(/differ from the saved roof plan/)
+		});
+		expect(refusal(priceRequest(task(gableRoof().slice(1)))).issues?.[0].path).toBe('facets');
 		expect(refusal(run({ siteId: SITE_ID })).issues?.[0].path).toBe('facets');
 	});
 });

@@ -4,7 +4,8 @@ import type { EstimateInput, EstimateResult } from '../../estimating/types';
 import {
 	estimateRequestSchema,
 	toEstimateInput,
-	type EstimateRequest
+	type EstimateRequest,
+	type FacetRequest
 } from '../../schemas/estimate';
 import { invalidRefusal, issuesOf, parseJsonBody, type Refusal } from '../api/refusal';
 
@@ -72,6 +73,25 @@ function cardOf(ref: CardRef): RateCard {
 
 const encoder = new TextEncoder();
 
+/** Key order and blank labels aside, the same facets in the same order. */
+function sameFacets(a: FacetRequest[], b: FacetRequest[]): boolean {
+	const canon = (fs: FacetRequest[]) =>
+		JSON.stringify(fs.map(({ label, ...f }) => sorted({ ...f, label: label?.trim() || null })));
+	return canon(a) === canon(b);
+}
+
+function sorted(v: unknown): unknown {
+	if (Array.isArray(v)) return v.map(sorted);
+	if (v && typeof v === 'object') {
+		return Object.fromEntries(
+			Object.keys(v)
+				.sort()
+				.map((k) => [k, sorted((v as Record<string, unknown>)[k])])
+		);
+	}
+	return v;
+}
+
 export function priceRequest(task: PriceTask): PriceOutcome {
 	const body = parseJsonBody(task.body);
 	if (!body.ok) return { kind: 'refused', refusal: body.refusal };
@@ -86,19 +106,32 @@ export function priceRequest(task: PriceTask): PriceOutcome {
 		};
 	}
 	let request: EstimateRequest;
-	if (parsed.data.facets) request = parsed.data;
+	const roofPlanId = parsed.data.roofPlanId;
+	if (roofPlanId === undefined) request = parsed.data;
 	else {
-		const roofPlanId = parsed.data.roofPlanId!;
 		if (task.plan?.id !== roofPlanId) {
 			return { kind: 'needs-plan', roofPlanId, siteId: parsed.data.siteId ?? null };
 		}
 		// The plan's facets go through the same checks as facets sent in the body.
-		const { roofPlanId: _r, ...rest } = body.value as Record<string, unknown>;
+		const { roofPlanId: _r, facets: sent, ...rest } = body.value as Record<string, unknown>;
 		const withFacets = estimateRequestSchema.safeParse({ ...rest, facets: task.plan.facets });
 		if (!withFacets.success) {
 			return {
 				kind: 'refused',
 				refusal: invalidRefusal(issuesOf(withFacets.error.issues), 'roof plan')
+			};
+		}
+		// Facets sent along with a roofPlanId must be that plan's, or it is unclear which was meant.
+		if (sent !== undefined && !sameFacets(parsed.data.facets!, withFacets.data.facets!)) {
+			return {
+				kind: 'refused',
+				refusal: invalidRefusal([
+					{
+						path: 'facets',
+						message:
+							'facets differ from the saved roof plan roofPlanId names: send roofPlanId alone to price that plan, or facets alone'
+					}
+				])
 			};
 		}
 		request = { ...withFacets.data, roofPlanId };
