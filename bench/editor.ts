@@ -10,7 +10,7 @@ import { performance } from 'node:perf_hooks';
 import { pathToFileURL } from 'node:url';
 import { gzipSync } from 'node:zlib';
 import type { Polygon } from 'geojson';
-import { featuresOf } from '../geodata/scene';
+import { featuresOf, house } from '../geodata/scene';
 import { measurePlan, PlanMeasurer, type MeasurableFacet } from '../src/lib/map/plan-measure';
 import { createSnapIndex, snapPoint, type LonLat } from '../src/lib/map/snap';
 
@@ -171,7 +171,8 @@ export async function benchTimeToMap(runs = 3): Promise<EditorBench['timeToMap']
 				await page.fill('input[name=password]', DEMO_PASSWORD);
 				await Promise.all([page.waitForURL(`${server.url}/`), page.click('form button')]);
 				const { sites } = await (await page.request.get(`${server.url}/api/sites`)).json();
-				const site = sites.find((s: { sceneHouseId: string | null }) => s.sceneHouseId === 'h04');
+				const address = house('h04')!.properties.address;
+				const site = sites.find((s: { address: string }) => s.address === address);
 				for (let i = 0; i < runs + 1; i++) {
 					await page.goto(`${server.url}/sites/${site.id}/roof`);
 					await page.waitForFunction(() => (window.__clearpitchMap?.readyAt ?? 0) > 0, null, {

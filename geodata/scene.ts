@@ -156,15 +156,15 @@ export interface Scene {
 }
 
 /**
- * Built server code no longer sits next to the file, so fall back to the working directory
- * (the repo root for npm scripts and `node build`); CLEARPITCH_SCENE overrides both.
+ * Beside this file, or, for bundled code that no longer sits next to it, in the working directory
+ * (the repo root for npm scripts). The scene is demo and test data: nothing here reads the
+ * environment, and the product's own code does not load it.
  */
 export function scenePath(): string {
 	const candidates = [
-		process.env.CLEARPITCH_SCENE,
 		fileURLToPath(new URL('./scene.geojson', import.meta.url)),
 		path.resolve(process.cwd(), 'geodata/scene.geojson')
-	].filter((p): p is string => !!p);
+	];
 	const found = candidates.find((p) => existsSync(p));
 	if (!found) throw new Error(`scene.geojson not found (looked in ${candidates.join(', ')})`);
 	return found;

@@ -1,3 +1,5 @@
+import type { Role } from './roles';
+
 /**
  * An estimate's statuses in the order it normally moves, then the two ends. One list for the
  * database enum, the API's schemas and the screens.
@@ -15,3 +17,41 @@ export const ESTIMATE_STATUSES = [
 ] as const;
 
 export type EstimateStatus = (typeof ESTIMATE_STATUSES)[number];
+
+/**
+ * The moves an estimate can make and who may make them. The owner may make any of them; the
+ * estimator readies a draft; sales sends, and records the customer's answer.
+ */
+const TRANSITIONS: Record<EstimateStatus, Partial<Record<EstimateStatus, readonly Role[]>>> = {
+	draft: { ready: ['owner', 'estimator'] },
+	ready: { sent: ['owner', 'sales'], draft: ['owner', 'estimator'], expired: ['owner', 'sales'] },
+	sent: {
+		accepted: ['owner', 'sales'],
+		declined: ['owner', 'sales'],
+		expired: ['owner', 'sales']
+	},
+	accepted: { scheduled: ['owner', 'sales'] },
+	scheduled: { done: ['owner'] },
+	done: { paid: ['owner'] },
+	paid: {},
+	declined: {},
+	expired: {}
+};
+
+/** Statuses reachable from `from`, whoever asks. */
+export function legalNext(from: EstimateStatus): EstimateStatus[] {
+	return Object.keys(TRANSITIONS[from]) as EstimateStatus[];
+}
+
+/** Statuses this role may move an estimate to from `from`. */
+export function nextStatusesFor(from: EstimateStatus, role: Role): EstimateStatus[] {
+	return legalNext(from).filter((to) => TRANSITIONS[from][to]!.includes(role));
+}
+
+/** The roles that may move an estimate from `from` to `to`; undefined when the move is not legal. */
+export function rolesForMove(
+	from: EstimateStatus,
+	to: EstimateStatus
+): readonly Role[] | undefined {
+	return TRANSITIONS[from][to];
+}

@@ -25,8 +25,9 @@ afterAll(async () => {
 
 async function siteOf(p: Page, houseId: string): Promise<string> {
 	const r = await p.request.get(`${server.url}/api/sites`);
-	const { sites } = (await r.json()) as { sites: { id: string; sceneHouseId: string | null }[] };
-	const s = sites.find((x) => x.sceneHouseId === houseId);
+	const { sites } = (await r.json()) as { sites: { id: string; address: string }[] };
+	// The seed puts a scene house's site at the house's address.
+	const s = sites.find((x) => x.address === house(houseId)?.properties.address);
 	if (!s) throw new Error(`no demo site for ${houseId}`);
 	return s.id;
 }

@@ -9,7 +9,10 @@ import { DEMO, seededDataDir, startServer, type TestServer } from '../helpers/se
 let server: TestServer;
 let ctx: BrowserContext;
 let page: Page;
-type Site = { id: string; address: string; sceneHouseId: string | null; lat: number; lon: number };
+type Site = { id: string; address: string; lat: number; lon: number };
+/** The seed puts a scene house's site at the house's address. */
+const siteOfHouse = (houseId: string) =>
+	sites.find((s) => s.address === house(houseId)!.properties.address)!;
 let sites: Site[];
 
 beforeAll(async () => {
@@ -130,7 +133,7 @@ describe('the New site form', () => {
 describe('a site page with a roof plan', () => {
 	it('shows the latest plan read-only over the imagery with its totals, also at 390 px', async () => {
 		// h08 (asymmetric gable) is one of the houses the demo leaves unmeasured.
-		const site = sites.find((s) => s.sceneHouseId === 'h08')!;
+		const site = siteOfHouse('h08');
 		const facets = planFacetsOf('h08');
 		const saved = await page.request.post(`${server.url}/api/roof-plans`, {
 			data: { siteId: site.id, facets }
@@ -159,7 +162,7 @@ describe('a site page with a roof plan', () => {
 	});
 
 	it('invites tracing the roof when there is no plan yet', async () => {
-		const site = sites.find((s) => s.sceneHouseId === 'h01')!;
+		const site = siteOfHouse('h01');
 		await page.goto(`${server.url}/sites/${site.id}`);
 		expect(await page.getByText('No roof plan yet.', { exact: false }).count()).toBe(1);
 		expect(await page.getByTestId('plan-map').count()).toBe(0);

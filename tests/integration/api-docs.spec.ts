@@ -49,7 +49,12 @@ describe('/api/openapi.json', () => {
 			'patch'
 		]);
 		const req = doc.components.schemas.EstimateRequest;
-		expect(req.required).toContain('facets');
+		// facets or roofPlanId (facets sent with a roofPlanId must be that plan's): the schema cannot
+		// say so with refinements, so the operation's description does; both fields are in it.
+		expect(req.required ?? []).not.toContain('facets');
+		expect(req.properties.roofPlanId).toMatchObject({ type: 'string', format: 'uuid' });
+		expect(doc.paths['/api/estimates'].post.description).toMatch(/roofPlanId/);
+		expect(doc.paths['/api/estimates'].post.description).toMatch(/must be that plan’s facets/);
 		const facet = req.properties.facets.items;
 		expect(facet.properties.pitch).toMatchObject({ type: 'number', minimum: 0, maximum: 24 });
 		expect(facet.properties.material.enum).toEqual([

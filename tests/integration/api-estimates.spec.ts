@@ -10,7 +10,7 @@ import {
 	estimateListSchema,
 	estimatePricedSchema,
 	rateCardListSchema
-} from '../../src/lib/server/api/schemas';
+} from '../../src/lib/schemas/estimates-api';
 import { cardToForm } from '../../src/routes/(app)/rates/card-form';
 import { sessionFor } from '../helpers/http';
 import { seededDataDir, startServer, type TestServer } from '../helpers/server';

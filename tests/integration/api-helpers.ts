@@ -3,7 +3,7 @@
 import { PGlite } from '@electric-sql/pglite';
 import { hashApiToken, newApiToken } from '../../src/lib/server/auth/tokens';
 import type { EstimateRequest } from '../../src/lib/schemas/estimate';
-import { estimateFacetsOf } from '../../geodata/scene';
+import { estimateFacetsOf, houses } from '../../geodata/scene';
 
 export type SeededSite = { id: string; address: string; customer: string; houseId: string | null };
 
@@ -28,15 +28,12 @@ async function withDb<T>(dir: string, run: (db: PGlite) => Promise<T>): Promise<
 /** Lists the seeded sites and creates two owner API tokens, one of them revoked. */
 export function prepareDataDir(dir: string): Promise<Prepared> {
 	return withDb(dir, async (db) => {
-		const sites = await db.query<{
-			id: string;
-			address: string;
-			customer: string;
-			house_id: string | null;
-		}>(
-			`select s.id, s.address, c.name as customer, s.scene_house_id as house_id
+		const sites = await db.query<{ id: string; address: string; customer: string }>(
+			`select s.id, s.address, c.name as customer
 			   from sites s join customers c on c.id = s.customer_id order by s.address`
 		);
+		// The seed puts each scene house's site at the house's address.
+		const houseAt = new Map(houses().map((h) => [h.properties.address, h.properties.houseId]));
 		const owner = await db.query<{ id: string; company_id: string }>(
 			`select id, company_id from users where role = 'owner' limit 1`
 		);
@@ -57,7 +54,7 @@ export function prepareDataDir(dir: string): Promise<Prepared> {
 				id: r.id,
 				address: r.address,
 				customer: r.customer,
-				houseId: r.house_id
+				houseId: houseAt.get(r.address) ?? null
 			})),
 			ownerToken,
 			revokedToken

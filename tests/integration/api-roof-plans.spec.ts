@@ -51,8 +51,8 @@ beforeAll(async () => {
 	estimator = await sessionFor(server.url, 'estimator');
 	crew = await sessionFor(server.url, 'crew');
 	const r = await call('GET', '/api/sites', estimator);
-	siteId = (r.body.sites as { id: string; sceneHouseId: string }[]).find(
-		(s) => s.sceneHouseId === 'h04'
+	siteId = (r.body.sites as { id: string; address: string }[]).find(
+		(s) => s.address === house('h04')!.properties.address
 	)!.id;
 });
 afterAll(async () => {

@@ -33,12 +33,12 @@ function bodies(): Array<{ name: string; body: string }> {
 		{ name: 'not JSON', body: '{"facets": [' },
 		{
 			name: 'bad pitch',
-			body: JSON.stringify({ facets: h03.facets.map((f) => ({ ...f, pitch: 99 })) })
+			body: JSON.stringify({ facets: h03.facets!.map((f) => ({ ...f, pitch: 99 })) })
 		},
 		{
 			name: 'roof on tile',
 			body: JSON.stringify({
-				facets: tile.facets.map((f) => ({ ...f, material: 'clay_tile', access: 'roof' }))
+				facets: tile.facets!.map((f) => ({ ...f, material: 'clay_tile', access: 'roof' }))
 			})
 		},
 		{

@@ -6,7 +6,7 @@ import { measureFacetPlan, type FacetPlan } from './geometry';
 import { EXPECTATIONS } from './growth';
 import { jobLabour } from './labour';
 import { fixed2, formatCents, shortNumber } from './money';
-import { NoteCollector } from './notes';
+import { facetName, facetNames, NoteCollector } from './notes';
 import { jobCost, jobPrice, marginPct } from './pricing';
 import type { RateCard } from './rate-card';
 import {
@@ -127,8 +127,9 @@ export function tryEstimate(input: EstimateInput, card: RateCard): EstimateOutco
 	});
 	if (issues.length > 0) return { ok: false, issues };
 
-	const warnings = new NoteCollector();
-	const expectations = new NoteCollector();
+	const names = facetNames(facetsIn);
+	const warnings = new NoteCollector(names);
+	const expectations = new NoteCollector(names);
 	const spotFacets = spot?.facetIds ? new Set(spot.facetIds) : null;
 	const details = new FacetDetailText(card);
 
@@ -156,7 +157,7 @@ export function tryEstimate(input: EstimateInput, card: RateCard): EstimateOutco
 		);
 		const r = fig.result;
 		facets[i] = r;
-		facetLines[i] = facetLine(f, r, details);
+		facetLines[i] = facetLine(f, i, r, details);
 
 		planAreaFt2 += r.planAreaFt2;
 		slopedAreaFt2 += r.slopedAreaFt2;
@@ -180,7 +181,7 @@ export function tryEstimate(input: EstimateInput, card: RateCard): EstimateOutco
 			issues: problems.map((p) => ({
 				path: stockPath,
 				code: 'stock_too_weak',
-				message: `${p.message} (facets ${p.facetIds.join(', ')})`
+				message: `${p.message} (${p.facetIds.map((id) => names.get(id) ?? id).join(', ')})`
 			}))
 		};
 	}
@@ -400,11 +401,11 @@ function checkFacet(
 	return r.plan;
 }
 
-function facetLine(f: FacetInput, r: FacetResult, details: FacetDetailText): LineItem {
+function facetLine(f: FacetInput, i: number, r: FacetResult, details: FacetDetailText): LineItem {
 	return {
 		code: 'facet',
 		facetId: f.id,
-		label: f.label ?? `Facet ${f.id}`,
+		label: facetName(f, i),
 		detail: details.text(f, r.squares, r.steep),
 		amountCents: r.priceCents
 	};

@@ -11,9 +11,32 @@ interface Entry {
 	count: number;
 }
 
+/**
+ * How a note names a facet to the people reading it: the label the estimator gave it, or its
+ * place in the plan ("Facet 2"). Internal ids are for software and stay in `facetIds`.
+ */
+export function facetName(facet: { label?: string }, index: number): string {
+	const label = facet.label?.trim();
+	return label ? label : `Facet ${index + 1}`;
+}
+
+/** Every facet's name by id, in input order (a repeated id keeps its first name). */
+export function facetNames(
+	facets: ReadonlyArray<{ id: string; label?: string }>
+): Map<string, string> {
+	const names = new Map<string, string>();
+	facets.forEach((f, i) => {
+		if (!names.has(f.id)) names.set(f.id, facetName(f, i));
+	});
+	return names;
+}
+
 /** Collects notes by code so one message lists every facet it applies to, in input order. */
 export class NoteCollector {
 	private readonly byCode = new Map<string, Entry>();
+
+	/** `names` maps a facet id to the name notes show for it (see facetNames). */
+	constructor(private readonly names: ReadonlyMap<string, string> = new Map()) {}
 
 	add(code: string, message: string, facetId?: string, path?: string): void {
 		this.put(code, message, facetId, path, -1, undefined);
@@ -59,7 +82,10 @@ export class NoteCollector {
 		const out: Note[] = [];
 		for (const e of this.byCode.values()) {
 			const note: Note = { code: e.code, message: e.message };
-			if (e.facetIds) note.facetIds = e.facetIds;
+			if (e.facetIds) {
+				note.facetIds = e.facetIds;
+				note.facets = e.facetIds.map((id) => this.names.get(id) ?? id);
+			}
 			// A path names one field; a note gathered from several facets has none.
 			if (e.count === 1) {
 				if (e.path !== undefined) note.path = e.path;

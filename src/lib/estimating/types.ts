@@ -111,6 +111,8 @@ export interface Note {
 	code: string;
 	message: string;
 	facetIds?: string[];
+	/** The same facets as people read them: their labels, or "Facet 2" for an unlabelled one. */
+	facets?: string[];
 	/** Field path like "facets.2.edges", when the note is about one input field. */
 	path?: string;
 }

@@ -57,74 +57,28 @@ const coordinate = (c: typeof LON) =>
 		.min(c.min, { error: `${c.field} must be at least ${c.min}` })
 		.max(c.max, { error: `${c.field} must be at most ${c.max}` });
 
-/**
- * One GeoJSON position, declared. It is what the OpenAPI document shows for a ring's items and
- * the reference the one-pass ring check below is tested against; the ring does not run it.
- */
+/** One GeoJSON position: [lon, lat], and an altitude if the source gives one. */
 export const positionSchema = z.tuple(
 	[coordinate(LON), coordinate(LAT)],
 	z.number({ error: ALTITUDE_TYPE }),
 	{ error: POSITION_TYPE }
 );
 
-type Ctx = z.core.$RefinementCtx<unknown[]>;
-const isFiniteNumber = (v: unknown): v is number => typeof v === 'number' && Number.isFinite(v);
-
-function checkCoordinate(v: unknown, c: typeof LON, i: number, k: number, ctx: Ctx) {
-	if (!isFiniteNumber(v)) {
-		const message =
-			v === undefined ? `${c.field} is required` : `${c.field} must be ${COORDINATE_TYPE}`;
-		ctx.addIssue({ code: 'custom', path: [i, k], message });
-	} else if (v < c.min || v > c.max) {
-		const message = `${c.field} must be ${v < c.min ? `at least ${c.min}` : `at most ${c.max}`}`;
-		ctx.addIssue({ code: 'custom', path: [i, k], message });
-	}
-}
-
-/**
- * The positions of a ring in one pass, with positionSchema's messages and paths. Zod's tuple
- * copies every position and costs most of a 30-facet body's validation; this reads them in place.
- */
-function checkPositions(r: unknown[], ctx: Ctx) {
-	for (let i = 0; i < r.length; i++) {
-		const p = r[i];
-		if (!Array.isArray(p)) {
-			ctx.addIssue({ code: 'custom', path: [i], message: POSITION_TYPE });
-			continue;
-		}
-		checkCoordinate(p[0], LON, i, 0, ctx);
-		checkCoordinate(p[1], LAT, i, 1, ctx);
-		for (let k = 2; k < p.length; k++) {
-			if (!isFiniteNumber(p[k]))
-				ctx.addIssue({ code: 'custom', path: [i, k], message: ALTITUDE_TYPE });
-		}
-	}
-}
-
-const positionJsonSchema = (() => {
-	const { $schema: _drop, ...rest } = z.toJSONSchema(positionSchema, { target: 'draft-2020-12' });
-	return rest;
-})();
-
 const ring = z
-	.array(z.unknown(), { error: 'a polygon ring must be an array of [lon, lat] positions' })
-	.superRefine(checkPositions)
+	.array(positionSchema, { error: 'a polygon ring must be an array of [lon, lat] positions' })
 	.min(4, { error: 'polygon ring needs at least 4 positions (3 corners and the closing position)' })
 	.max(MAX_VERTICES + 1, { error: `polygon may have at most ${MAX_VERTICES} vertices` })
 	.superRefine((r, ctx) => {
 		if (ctx.issues.length > 0) return;
-		const a = r[0] as number[];
-		const b = r[r.length - 1] as number[];
+		const a = r[0];
+		const b = r[r.length - 1];
 		if (a[0] !== b[0] || a[1] !== b[1]) {
 			ctx.addIssue({
 				code: 'custom',
 				message: 'polygon ring is not closed: the last position must repeat the first'
 			});
 		}
-	})
-	.meta({ items: positionJsonSchema }) as unknown as z.ZodType<Position[], unknown[]>;
-
-type Position = [number, number, ...number[]];
+	});
 
 export const polygonSchema = strict('polygon (a GeoJSON Polygon)', {
 	type: z.literal('Polygon', { error: 'polygon type must be "Polygon"' }),
@@ -212,9 +166,10 @@ const uuid = (field: string) => z.uuid({ error: `${field} must be a UUID` });
 
 export const estimateRequestSchema = strict('the request body', {
 	facets: z
-		.array(facetSchema, { error: required('facets', 'an array of facets') })
+		.array(facetSchema, { error: 'facets must be an array of facets' })
 		.min(1, { error: 'facets must list at least one facet' })
-		.max(MAX_FACETS, { error: `facets may list at most ${MAX_FACETS} facets` }),
+		.max(MAX_FACETS, { error: `facets may list at most ${MAX_FACETS} facets` })
+		.optional(),
 	siteId: uuid('siteId').optional(),
 	roofPlanId: uuid('roofPlanId').optional(),
 	rateCardId: uuid('rateCardId').optional(),
@@ -234,8 +189,17 @@ export const estimateRequestSchema = strict('the request body', {
 	}).optional(),
 	save: z.boolean({ error: 'save must be true or false' }).optional()
 }).superRefine((body, ctx) => {
+	// A roofPlanId means "price that stored plan version"; facets sent as well must be that
+	// plan's (the pricing step compares them once the plan is loaded).
+	if (body.facets === undefined && body.roofPlanId === undefined) {
+		ctx.addIssue({
+			code: 'custom',
+			path: ['facets'],
+			message: 'facets is required (or send roofPlanId to price a saved roof plan)'
+		});
+	}
 	const seen = new Set<string>();
-	body.facets.forEach((f, i) => {
+	body.facets?.forEach((f, i) => {
 		if (seen.has(f.id)) {
 			ctx.addIssue({
 				code: 'custom',
@@ -245,6 +209,8 @@ export const estimateRequestSchema = strict('the request body', {
 		}
 		seen.add(f.id);
 	});
+	// With a roofPlanId the facets are not known yet; the pricing step checks them with the plan's.
+	if (body.facets === undefined) return;
 	body.testSpot?.facetIds?.forEach((id, k) => {
 		if (!seen.has(id)) {
 			ctx.addIssue({
@@ -259,10 +225,12 @@ export const estimateRequestSchema = strict('the request body', {
 export type EstimateRequest = z.infer<typeof estimateRequestSchema>;
 export type FacetRequest = z.infer<typeof facetSchema>;
 
-/** The model's input part of a parsed request (drops siteId, rateCardId, save…). */
+/** The model's input part of a parsed request with its facets (drops siteId, rateCardId, save…). */
 export function toEstimateInput(body: EstimateRequest): EstimateInput {
-	const { siteId: _s, roofPlanId: _r, rateCardId: _c, save: _v, ...input } = body;
-	return input;
+	const { siteId: _s, roofPlanId: _r, rateCardId: _c, save: _v, facets, ...input } = body;
+	// The pricing step fills in a roof plan's facets before it prices; none here is a slip.
+	if (!facets) throw new Error('toEstimateInput needs the facets (load the roof plan first)');
+	return { ...input, facets };
 }
 
 /** Issues as the API returns them: { path: 'facets.2.polygon', message }. */

@@ -11,7 +11,7 @@ import {
 	estimatePatchSchema,
 	estimatePricedSchema,
 	rateCardListSchema
-} from './api/schemas';
+} from '../schemas/estimates-api';
 
 type JsonSchema = Record<string, unknown>;
 
@@ -76,7 +76,16 @@ function build() {
 					description:
 						'Prices with the latest rate-card version unless `rateCardId` names another. With ' +
 						'`"save": true` (and a `siteId` of one of your sites) the estimate is stored as a ' +
-						'draft; it keeps its input, price and rate-card version whatever changes later.',
+						'draft; it keeps its input, price and rate-card version whatever changes later.\n\n' +
+						'Send the roof as `facets` or as `roofPlanId`. With `roofPlanId` the server prices the ' +
+						'facets saved in that roof-plan version and stores them with the estimate; the plan ' +
+						'must be one of your roof plans and, when `siteId` is sent, a plan of that site ' +
+						'(otherwise a 400 on `roofPlanId`, and nothing is written). Facets sent together ' +
+						'with a `roofPlanId` must be that plan’s facets, in its order (labels compared ' +
+						'trimmed), or the answer is a 400 on `facets`: the server never guesses which of ' +
+						'the two was meant. Saving a plan as a draft: ' +
+						'`{ "siteId": "…", "roofPlanId": "…", "save": true }`, with any of the other ' +
+						'fields.',
 					requestBody: {
 						required: true,
 						content: {

@@ -150,7 +150,10 @@ describe('estimateRequestSchema', () => {
 		expect(errorsOf(JSON.parse(JSON.stringify({ facets: many })))[0].message).toMatch(
 			/at most 200/
 		);
-		expect(errorsOf({})[0]).toEqual({ path: 'facets', message: 'facets is required' });
+		expect(errorsOf({})[0]).toEqual({
+			path: 'facets',
+			message: 'facets is required (or send roofPlanId to price a saved roof plan)'
+		});
 	});
 
 	it('geometry zod cannot see comes back from the model with a facets.N.polygon path', () => {

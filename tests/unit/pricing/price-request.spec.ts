@@ -102,4 +102,45 @@ describe('priceRequest', () => {
 		});
 		if (o.kind === 'save') expect(o.input).not.toHaveProperty('save');
 	});
+
+	it('asks for the roof plan a body names, then prices its facets as if they were sent', () => {
+		const PLAN_ID = '2a3b4c5d-6e7f-4a8b-9c0d-1e2f3a4b5c6d';
+		const body = { roofPlanId: PLAN_ID, siteId: SITE_ID, save: true, discountPct: 5 };
+		expect(run(body)).toEqual({ kind: 'needs-plan', roofPlanId: PLAN_ID, siteId: SITE_ID });
+		// Another plan than the one asked for is not taken for it.
+		const wrong = { id: OTHER_ID, facets: gableRoof() };
+		expect(priceRequest({ body: bytes(body), card: cardRef(), plan: wrong }).kind).toBe(
+			'needs-plan'
+		);
+		const o = priceRequest({
+			body: bytes(body),
+			card: cardRef(),
+			plan: { id: PLAN_ID, facets: gableRoof() }
+		});
+		if (o.kind !== 'save') throw new Error(`expected a save, got ${o.kind}`);
+		expect(o.roofPlanId).toBe(PLAN_ID);
+		const sent = estimate(
+			toEstimateInput(estimateRequestSchema.parse({ facets: gableRoof(), discountPct: 5 })),
+			DEFAULT_RATE_CARD
+		);
+		expect(o.result).toEqual(sent);
+	});
+
+	it('takes facets sent with a roofPlanId only when they are that plan’s, and needs one of them', () => {
+		const PLAN_ID = '2a3b4c5d-6e7f-4a8b-9c0d-1e2f3a4b5c6d';
+		const plan = { id: PLAN_ID, facets: gableRoof() };
+		const task = (facets: unknown) => ({
+			body: bytes({ facets, roofPlanId: PLAN_ID, siteId: SITE_ID, save: true }),
+			card: cardRef(),
+			plan
+		});
+		expect(priceRequest(task(gableRoof())).kind).toBe('save');
+		const steeper = gableRoof().map((f) => ({ ...f, pitch: f.pitch + 1 }));
+		expect(refusal(priceRequest(task(steeper))).issues?.[0]).toMatchObject({
+			path: 'facets',
+			message: expect.stringMatching(/differ from the saved roof plan/)
+		});
+		expect(refusal(priceRequest(task(gableRoof().slice(1)))).issues?.[0].path).toBe('facets');
+		expect(refusal(run({ siteId: SITE_ID })).issues?.[0].path).toBe('facets');
+	});
 });

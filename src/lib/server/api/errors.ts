@@ -1,5 +1,6 @@
 import { json } from '@sveltejs/kit';
 import type { z } from 'zod';
+import { Conflict, DomainError, Forbidden, Invalid, NotFound } from '../services/errors';
 import { invalidRefusal, issuesOf, type ApiIssue, type Refusal } from './refusal';
 
 export { issuesOf, toPath, type ApiIssue } from './refusal';
@@ -39,8 +40,21 @@ export function apiErrorResponse(e: ApiError): Response {
 	return json(body, { status: e.status });
 }
 
+/** The one place a service's refusal becomes an HTTP status. */
+export function statusOf(e: DomainError): number {
+	if (e instanceof Invalid) return 400;
+	if (e instanceof Forbidden) return 403;
+	if (e instanceof NotFound) return 404;
+	if (e instanceof Conflict) return 409;
+	return 400;
+}
+
+export function fromDomain(e: DomainError): ApiError {
+	return new ApiError(statusOf(e), e.message, e.issues);
+}
+
 /**
- * Runs a handler and answers its ApiErrors as JSON. Anything else (kit's error() and redirects
+ * Runs a handler and answers its ApiErrors and the services' DomainErrors as JSON. Anything else (kit's error() and redirects
  * included) passes through to SvelteKit unchanged.
  */
 export async function answer(run: () => Promise<Response> | Response): Promise<Response> {
@@ -48,6 +62,7 @@ export async function answer(run: () => Promise<Response> | Response): Promise<R
 		return await run();
 	} catch (e) {
 		if (e instanceof ApiError) return apiErrorResponse(e);
+		if (e instanceof DomainError) return apiErrorResponse(fromDomain(e));
 		throw e;
 	}
 }

@@ -26,7 +26,7 @@ function rectangle(lat0: number, lon0: number, wFt: number, hFt: number): [numbe
  * Worked value W1 of docs/estimating-model.md §13 as an API call: a 40 × 30 ft plan at 6/12 in the invented
  * town of Wrenfield (≈1341.6 ft², 13.42 squares). Priced with the demo rate card.
  */
-export const EXAMPLE_REQUEST: EstimateRequest = {
+export const EXAMPLE_REQUEST = {
 	facets: [
 		{
 			id: 'south',
@@ -42,7 +42,7 @@ export const EXAMPLE_REQUEST: EstimateRequest = {
 	],
 	stockStrengthPct: 12.5,
 	siteFlags: { plantsToProtect: true }
-};
+} satisfies EstimateRequest;
 
 let exampleResult: ReturnType<typeof estimate> | undefined;
 

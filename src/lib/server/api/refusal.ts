@@ -1,3 +1,5 @@
+import { issuesSummary } from '../services/errors';
+
 /**
  * API refusals as plain data. Pricing runs on a worker thread, and an Error subclass does not
  * survive the trip back; a Refusal does, and ApiError.from() turns it into the answer.
@@ -26,14 +28,7 @@ export function issuesOf(
 
 /** 400 whose message names the bad fields (the first five) and whose issues list them all. */
 export function invalidRefusal(issues: ApiIssue[], what = 'request'): Refusal {
-	const names = [...new Set(issues.map((i) => i.path || 'body'))];
-	const shown =
-		names.slice(0, 5).join(', ') + (names.length > 5 ? ` and ${names.length - 5} more` : '');
-	return {
-		status: 400,
-		message: `The ${what} has ${issues.length === 1 ? 'a problem' : `${issues.length} problems`}: ${shown}.`,
-		issues
-	};
+	return { status: 400, message: issuesSummary(issues, what), issues };
 }
 
 const decoder = new TextDecoder('utf-8', { fatal: false });

@@ -1,7 +1,12 @@
 import { tryEstimate } from '../../estimating';
 import type { RateCard } from '../../estimating/rate-card';
 import type { EstimateInput, EstimateResult } from '../../estimating/types';
-import { estimateRequestSchema, toEstimateInput } from '../../schemas/estimate';
+import {
+	estimateRequestSchema,
+	toEstimateInput,
+	type EstimateRequest,
+	type FacetRequest
+} from '../../schemas/estimate';
 import { invalidRefusal, issuesOf, parseJsonBody, type Refusal } from '../api/refusal';
 
 /**
@@ -22,12 +27,24 @@ export interface PriceTask {
 	body: Uint8Array;
 	/** The company's latest card, or null when it has none. */
 	card: CardRef | null;
+	/**
+	 * The roof plan a body names by roofPlanId, its facets as /api/estimates takes them; the main
+	 * thread loads it (checked against the caller's company and the body's site) when asked.
+	 */
+	plan?: PlanRef | null;
+}
+
+export interface PlanRef {
+	id: string;
+	facets: unknown[];
 }
 
 export type PriceOutcome =
 	| { kind: 'refused'; refusal: Refusal }
 	/** The body names another card than the one sent (or there was none): look it up, run again. */
 	| { kind: 'needs-card'; rateCardId: string | null }
+	/** The body prices a saved roof plan: load it (for this site, if named), run again. */
+	| { kind: 'needs-plan'; roofPlanId: string; siteId: string | null }
 	/** Priced, not to be saved: the answer, UTF-8 JSON. */
 	| { kind: 'priced'; json: Uint8Array }
 	/** Priced, to be saved as a draft for the site: what the store needs. */
@@ -56,6 +73,25 @@ function cardOf(ref: CardRef): RateCard {
 
 const encoder = new TextEncoder();
 
+/** Key order and blank labels aside, the same facets in the same order. */
+function sameFacets(a: FacetRequest[], b: FacetRequest[]): boolean {
+	const canon = (fs: FacetRequest[]) =>
+		JSON.stringify(fs.map(({ label, ...f }) => sorted({ ...f, label: label?.trim() || null })));
+	return canon(a) === canon(b);
+}
+
+function sorted(v: unknown): unknown {
+	if (Array.isArray(v)) return v.map(sorted);
+	if (v && typeof v === 'object') {
+		return Object.fromEntries(
+			Object.keys(v)
+				.sort()
+				.map((k) => [k, sorted((v as Record<string, unknown>)[k])])
+		);
+	}
+	return v;
+}
+
 export function priceRequest(task: PriceTask): PriceOutcome {
 	const body = parseJsonBody(task.body);
 	if (!body.ok) return { kind: 'refused', refusal: body.refusal };
@@ -63,12 +99,42 @@ export function priceRequest(task: PriceTask): PriceOutcome {
 	if (!parsed.success) {
 		return { kind: 'refused', refusal: invalidRefusal(issuesOf(parsed.error.issues)) };
 	}
-	const request = parsed.data;
-	if (request.save && !request.siteId) {
+	if (parsed.data.save && !parsed.data.siteId) {
 		return {
 			kind: 'refused',
 			refusal: invalidRefusal([{ path: 'siteId', message: 'siteId is required when save is true' }])
 		};
+	}
+	let request: EstimateRequest;
+	const roofPlanId = parsed.data.roofPlanId;
+	if (roofPlanId === undefined) request = parsed.data;
+	else {
+		if (task.plan?.id !== roofPlanId) {
+			return { kind: 'needs-plan', roofPlanId, siteId: parsed.data.siteId ?? null };
+		}
+		// The plan's facets go through the same checks as facets sent in the body.
+		const { roofPlanId: _r, facets: sent, ...rest } = body.value as Record<string, unknown>;
+		const withFacets = estimateRequestSchema.safeParse({ ...rest, facets: task.plan.facets });
+		if (!withFacets.success) {
+			return {
+				kind: 'refused',
+				refusal: invalidRefusal(issuesOf(withFacets.error.issues), 'roof plan')
+			};
+		}
+		// Facets sent along with a roofPlanId must be that plan's, or it is unclear which was meant.
+		if (sent !== undefined && !sameFacets(parsed.data.facets!, withFacets.data.facets!)) {
+			return {
+				kind: 'refused',
+				refusal: invalidRefusal([
+					{
+						path: 'facets',
+						message:
+							'facets differ from the saved roof plan roofPlanId names: send roofPlanId alone to price that plan, or facets alone'
+					}
+				])
+			};
+		}
+		request = { ...withFacets.data, roofPlanId };
 	}
 	const wanted = request.rateCardId ?? task.card?.id ?? null;
 	if (!task.card || wanted !== task.card.id) return { kind: 'needs-card', rateCardId: wanted };

@@ -95,7 +95,6 @@ export async function seedDemo(opts: { samples?: boolean } = {}) {
 				lat: h.lat,
 				lon: h.lon,
 				notes: h.notes ?? '',
-				sceneHouseId: h.houseId || null,
 				flags: h.noGutters ? { noGutters: true } : {}
 			});
 		});

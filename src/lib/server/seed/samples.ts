@@ -1,5 +1,5 @@
 import { and, count, eq } from 'drizzle-orm';
-import { estimateFacetsOf, planFacetsOf } from '../../../../geodata/scene';
+import { house, planFacetsOf } from '../../../../geodata/scene';
 import type { Role } from '$lib/roles';
 import { savePlanSchema } from '$lib/schemas/roof-plan';
 import { getDb } from '../db';
@@ -35,10 +35,13 @@ export async function seedSamples(
 	const made = { plans: 0, estimates: 0 };
 
 	for (const sample of SAMPLES) {
+		// A scene house's site is the one at its address; the schema knows nothing of the scene.
+		const address = house(sample.houseId)?.properties.address;
+		if (!address) continue;
 		const [site] = await db
 			.select({ id: sites.id })
 			.from(sites)
-			.where(and(eq(sites.companyId, companyId), eq(sites.sceneHouseId, sample.houseId)));
+			.where(and(eq(sites.companyId, companyId), eq(sites.address, address)));
 		if (!site) continue;
 		const [{ n: plansThere }] = await db
 			.select({ n: count() })
@@ -57,13 +60,8 @@ export async function seedSamples(
 		if (!saved.ok) throw new Error(`Sample roof plan for ${sample.houseId}: ${saved.reason}`);
 		made.plans += 1;
 
-		// Priced the way the API prices: the same checks, the same card, the same store.
-		const body = {
-			siteId: site.id,
-			roofPlanId: saved.plan.id,
-			save: true,
-			facets: estimateFacetsOf(sample.houseId)
-		};
+		// Priced the way the API prices: from the saved plan, with the same checks, card and store.
+		const body = { siteId: site.id, roofPlanId: saved.plan.id, save: true };
 		const done = await priceEstimateBody(caller, new TextEncoder().encode(JSON.stringify(body)));
 		if (!done.saved) throw new Error(`the sample estimate for ${sample.houseId} was not saved`);
 		made.estimates += 1;

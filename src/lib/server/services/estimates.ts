@@ -1,45 +1,18 @@
 import { and, count, desc, eq, ilike, or, sql, type SQL } from 'drizzle-orm';
 import type { Role } from '../../roles';
 import type { EstimateInput, EstimateResult } from '../../estimating/types';
-import { ApiError, invalid } from '../api/errors';
+import { Conflict, Forbidden, Invalid, NotFound } from './errors';
+import type { EstimateDetail, EstimateFilters, EstimateListItem } from '../../types/estimate';
 import { getDb } from '../db';
-import type { EstimateStatus } from '../../estimate-status';
+import { legalNext, rolesForMove, type EstimateStatus } from '../../estimate-status';
 import { customers, estimates, sites, users } from '../db/schema';
 import { latestRateCard, NoRateCardError, rateCardById, type StoredRateCard } from './rate-cards';
-import type { CardRef, PriceOutcome } from '../pricing/price-request';
+import type { CardRef, PlanRef, PriceOutcome, PriceTask } from '../pricing/price-request';
+import type { PlanFacet } from '../../schemas/roof-plan';
+import { getPlanById } from './roof-plans';
 import { runPricing } from '../pricing/pool';
 
 export type { EstimateStatus };
-
-/**
- * The moves an estimate can make and who may make them. The owner may make any of them; the
- * estimator readies a draft; sales sends, and records the customer's answer.
- */
-const TRANSITIONS: Record<EstimateStatus, Partial<Record<EstimateStatus, readonly Role[]>>> = {
-	draft: { ready: ['owner', 'estimator'] },
-	ready: { sent: ['owner', 'sales'], draft: ['owner', 'estimator'], expired: ['owner', 'sales'] },
-	sent: {
-		accepted: ['owner', 'sales'],
-		declined: ['owner', 'sales'],
-		expired: ['owner', 'sales']
-	},
-	accepted: { scheduled: ['owner', 'sales'] },
-	scheduled: { done: ['owner'] },
-	done: { paid: ['owner'] },
-	paid: {},
-	declined: {},
-	expired: {}
-};
-
-/** Statuses reachable from `from`, whoever asks. */
-export function legalNext(from: EstimateStatus): EstimateStatus[] {
-	return Object.keys(TRANSITIONS[from]) as EstimateStatus[];
-}
-
-/** Statuses this role may move an estimate to from `from`. */
-export function nextStatusesFor(from: EstimateStatus, role: Role): EstimateStatus[] {
-	return legalNext(from).filter((to) => TRANSITIONS[from][to]!.includes(role));
-}
 
 export type Caller = { id: string; companyId: string; role: Role };
 
@@ -53,13 +26,13 @@ async function cardFor(companyId: string, rateCardId?: string): Promise<StoredRa
 		try {
 			return await latestRateCard(companyId);
 		} catch (e) {
-			if (e instanceof NoRateCardError) throw new ApiError(409, e.message);
+			if (e instanceof NoRateCardError) throw new Conflict(e.message);
 			throw e;
 		}
 	}
 	const card = await rateCardById(companyId, rateCardId);
 	if (!card) {
-		throw invalid([{ path: 'rateCardId', message: 'rateCardId is not one of your rate cards' }]);
+		throw Invalid.of([{ path: 'rateCardId', message: 'rateCardId is not one of your rate cards' }]);
 	}
 	return card;
 }
@@ -71,7 +44,29 @@ async function assertSite(companyId: string, siteId: string) {
 		.from(sites)
 		.where(and(eq(sites.id, siteId), eq(sites.companyId, companyId)))
 		.limit(1);
-	if (!site) throw invalid([{ path: 'siteId', message: 'siteId is not one of your sites' }]);
+	if (!site) throw Invalid.of([{ path: 'siteId', message: 'siteId is not one of your sites' }]);
+}
+
+/**
+ * The roof plan a body names, as the pricing step takes it: refused (400, roofPlanId) unless it
+ * is one of the company's plans and, when the body names a site, a plan of that site.
+ */
+async function planFor(companyId: string, planId: string, siteId: string | null): Promise<PlanRef> {
+	const plan = await getPlanById(companyId, planId);
+	if (!plan) {
+		throw Invalid.of([{ path: 'roofPlanId', message: 'roofPlanId is not one of your roof plans' }]);
+	}
+	if (siteId !== null && plan.siteId !== siteId) {
+		throw Invalid.of([
+			{ path: 'roofPlanId', message: 'roofPlanId is a roof plan of another site than siteId' }
+		]);
+	}
+	return { id: plan.id, facets: plan.facets.map(toRequestFacet) };
+}
+
+/** A stored plan facet as /api/estimates takes it. */
+function toRequestFacet({ geometry, label, ...f }: PlanFacet) {
+	return { ...f, ...(label ? { label } : {}), polygon: geometry };
 }
 
 /** Stores a priced request as a draft for its site, frozen with its input, result and card. */
@@ -121,7 +116,7 @@ async function latestOrNull(companyId: string): Promise<StoredRateCard | null> {
 /**
  * POST /api/estimates from the body as sent: parsing, validation and pricing run on a pricing
  * thread (see pricing/pool.ts), the card lookup and the store here. Answers the priced
- * estimate as UTF-8 JSON, or the saved draft; refusals throw ApiError and write nothing. The
+ * estimate as UTF-8 JSON, or the saved draft; refusals throw Invalid and write nothing. The
  * demo seed prices its samples through here too.
  */
 export async function priceEstimateBody(
@@ -129,16 +124,23 @@ export async function priceEstimateBody(
 	body: Uint8Array
 ): Promise<{ saved: false; json: Uint8Array } | { saved: true; priced: PricedEstimate }> {
 	const latest = await latestOrNull(caller.companyId);
-	let outcome = await runPricing({ body, card: latest && cardRef(latest) });
-	if (outcome.kind === 'needs-card') {
-		const card = await cardFor(caller.companyId, outcome.rateCardId ?? undefined);
-		outcome = await runPricing({ body, card: cardRef(card) });
+	const task: PriceTask = { body, card: latest && cardRef(latest) };
+	let outcome = await runPricing(task);
+	// At most one look-up of each kind: a plan (the body names one) and a card (not the latest).
+	for (let round = 0; round < 2; round++) {
+		if (outcome.kind === 'needs-plan') {
+			task.plan = await planFor(caller.companyId, outcome.roofPlanId, outcome.siteId);
+		} else if (outcome.kind === 'needs-card') {
+			task.card = cardRef(await cardFor(caller.companyId, outcome.rateCardId ?? undefined));
+		} else break;
+		outcome = await runPricing(task);
 	}
 	switch (outcome.kind) {
 		case 'refused':
-			throw ApiError.from(outcome.refusal);
+			throw new Invalid(outcome.refusal.message, outcome.refusal.issues ?? []);
 		case 'needs-card':
-			throw new Error('the pricing thread asked twice for a rate card');
+		case 'needs-plan':
+			throw new Error(`the pricing thread asked again (${outcome.kind})`);
 		case 'priced':
 			return { saved: false, json: outcome.json };
 		case 'save':
@@ -146,27 +148,6 @@ export async function priceEstimateBody(
 			return { saved: true, priced: await storeDraft(caller, outcome) };
 	}
 }
-
-export type EstimateFilters = {
-	status?: EstimateStatus;
-	siteId?: string;
-	text?: string;
-	page: number;
-	pageSize: number;
-};
-
-export type EstimateListItem = {
-	id: string;
-	status: EstimateStatus;
-	siteId: string | null;
-	address: string | null;
-	customerName: string | null;
-	totalCents: number;
-	squares: number;
-	rateCardVersion: number;
-	createdAt: Date;
-	updatedAt: Date;
-};
 
 const escapeLike = (s: string) => s.replace(/[\\%_]/g, (c) => '\\' + c);
 
@@ -214,21 +195,6 @@ export async function listEstimates(
 	]);
 	return { items, total: n, page: f.page, pageSize: f.pageSize };
 }
-
-export type EstimateDetail = {
-	id: string;
-	status: EstimateStatus;
-	siteId: string | null;
-	roofPlanId: string | null;
-	site: { address: string; customerName: string } | null;
-	rateCard: { id: string; version: number };
-	input: EstimateInput;
-	result: EstimateResult;
-	totalCents: number;
-	createdBy: string | null;
-	createdAt: Date;
-	updatedAt: Date;
-};
 
 export async function getEstimate(
 	companyId: string,
@@ -278,22 +244,20 @@ export async function changeStatus(
 	to: EstimateStatus
 ): Promise<EstimateDetail> {
 	const current = await getEstimate(caller.companyId, id);
-	if (!current) throw new ApiError(404, `No estimate with id ${id}.`);
+	if (!current) throw new NotFound(`No estimate with id ${id}.`);
 	const from = current.status;
 	if (from === to) return current;
-	const roles = TRANSITIONS[from][to];
+	const roles = rolesForMove(from, to);
 	if (!roles) {
 		const options = legalNext(from);
-		throw new ApiError(
-			409,
+		throw new Conflict(
 			`An estimate that is ${from} can't become ${to}` +
 				(options.length ? `; from ${from} it can become ${options.join(', ')}.` : '.'),
 			[{ path: 'status', message: `${from} → ${to} is not allowed` }]
 		);
 	}
 	if (!roles.includes(caller.role)) {
-		throw new ApiError(
-			403,
+		throw new Forbidden(
 			`Moving an estimate from ${from} to ${to} needs the ${roles.join(' or ')} role; you are ${caller.role}.`
 		);
 	}
@@ -310,10 +274,7 @@ export async function changeStatus(
 		)
 		.returning({ id: estimates.id });
 	if (moved.length === 0) {
-		throw new ApiError(
-			409,
-			'Someone changed this estimate at the same time; reload and try again.'
-		);
+		throw new Conflict('Someone changed this estimate at the same time; reload and try again.');
 	}
 	return (await getEstimate(caller.companyId, id))!;
 }

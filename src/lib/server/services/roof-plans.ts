@@ -1,12 +1,13 @@
 import { and, desc, eq, max } from 'drizzle-orm';
 import type { Polygon } from 'geojson';
-import { measurePlan, type FacetMeasure, type PlanTotals } from '$lib/map/plan-measure';
+import { measurePlan } from '$lib/map/plan-measure';
 import {
 	planFacetSchema,
 	type PlanFacet,
 	type PlanSource,
 	type SavePlanInput
 } from '$lib/schemas/roof-plan';
+import type { RoofPlanDto, VersionSummary } from '../../types/roof-plan';
 import { getDb } from '../db';
 import { roofPlans, sites, users } from '../db/schema';
 
@@ -26,32 +27,6 @@ export interface StoredFacetCollection {
 		geometry: Polygon;
 		properties: Omit<PlanFacet, 'id' | 'geometry'>;
 	}>;
-}
-
-export interface RoofPlanDto {
-	id: string;
-	siteId: string;
-	version: number;
-	source: PlanSource;
-	note: string;
-	createdAt: string;
-	createdBy: string | null;
-	basedOnVersion: number | null;
-	facets: PlanFacet[];
-	measures: FacetMeasure[];
-	totals: PlanTotals;
-}
-
-export interface VersionSummary {
-	id: string;
-	version: number;
-	source: PlanSource;
-	note: string;
-	createdAt: string;
-	createdBy: string | null;
-	facetCount: number;
-	slopedAreaFt2: number;
-	squares: number;
 }
 
 export function toCollection(

@@ -14,7 +14,6 @@ export type SiteSummary = {
 	lat: number;
 	lon: number;
 	customerName: string;
-	sceneHouseId: string | null;
 };
 
 export async function listSites(companyId: string, q?: string): Promise<SiteSummary[]> {
@@ -27,8 +26,7 @@ export async function listSites(companyId: string, q?: string): Promise<SiteSumm
 			address: sites.address,
 			lat: sites.lat,
 			lon: sites.lon,
-			customerName: customers.name,
-			sceneHouseId: sites.sceneHouseId
+			customerName: customers.name
 		})
 		.from(sites)
 		.innerJoin(customers, eq(customers.id, sites.customerId))
@@ -91,7 +89,6 @@ export interface SiteDetail {
 	pets: string | null;
 	waterSource: string | null;
 	flags: SiteFlags;
-	sceneHouseId: string | null;
 	customer: { name: string; email: string | null; phone: string | null };
 }
 
@@ -110,7 +107,6 @@ export async function getSiteDetail(companyId: string, siteId: string): Promise<
 		pets: site.pets,
 		waterSource: site.waterSource,
 		flags: site.flags,
-		sceneHouseId: site.sceneHouseId,
 		customer: { name: customer.name, email: customer.email, phone: customer.phone }
 	};
 }

@@ -1,9 +1,9 @@
 import { fail, redirect } from '@sveltejs/kit';
+import { PREVIEW_ROOFS } from '$lib/rates/preview-roofs';
 import { NO_NUL, NUL_MESSAGE, formObject } from '$lib/schemas/form';
 import { requireRole } from '$lib/server/auth/guard';
 import { rateCardHistory, saveRateCard } from '$lib/server/services/rate-cards';
 import { diffCards, formToCard } from './card-form';
-import { previewRoofs } from './preview-roofs.server';
 import type { Actions, PageServerLoad } from './$types';
 
 const MAX_NOTE = 200;
@@ -23,7 +23,7 @@ export const load: PageServerLoad = async (event) => {
 			createdAt: v.createdAt,
 			changes: history[i + 1] ? diffCards(history[i + 1].card, v.card) : []
 		})),
-		roofs: previewRoofs(),
+		roofs: PREVIEW_ROOFS,
 		saved: Number(event.url.searchParams.get('saved')) || null
 	};
 };

@@ -2,7 +2,7 @@ import { json } from '@sveltejs/kit';
 import { readJsonBytes } from '$lib/server/api/body';
 import { answer, zodInvalid } from '$lib/server/api/errors';
 import { jsonBytesResponse, jsonResponse } from '$lib/server/api/respond';
-import { estimateListQuerySchema, queryObject } from '$lib/server/api/schemas';
+import { estimateListQuerySchema, queryObject } from '$lib/schemas/estimates-api';
 import { requireRole } from '$lib/server/auth/guard';
 import { listEstimates, priceEstimateBody } from '$lib/server/services/estimates';
 import type { RequestHandler } from './$types';

@@ -43,7 +43,8 @@ export const estimates = pgTable(
 			.notNull()
 			.references(() => companies.id),
 		siteId: uuid('site_id').references(() => sites.id),
-		roofPlanId: uuid('roof_plan_id'),
+		/** The roof-plan version it was priced from, if any: the company's, of the same site. */
+		roofPlanId: uuid('roof_plan_id').references(() => roofPlans.id),
 		status: estimateStatusEnum('status').notNull().default('draft'),
 		rateCardId: uuid('rate_card_id')
 			.notNull()

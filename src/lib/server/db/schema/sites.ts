@@ -39,8 +39,6 @@ export const sites = pgTable(
 		pets: text('pets'),
 		waterSource: text('water_source'),
 		flags: jsonb('flags').$type<SiteFlags>().notNull().default({}),
-		/** Which house of the bundled sample scene this site is, if any. */
-		sceneHouseId: text('scene_house_id'),
 		...timestamps
 	},
 	(t) => [index('sites_company_idx').on(t.companyId)]

@@ -1,9 +1,11 @@
 import { error, fail } from '@sveltejs/kit';
 import { formObject } from '$lib/schemas/form';
-import { ApiError } from '$lib/server/api/errors';
-import { estimatePatchSchema } from '$lib/server/api/schemas';
+import { statusOf } from '$lib/server/api/errors';
+import { DomainError } from '$lib/server/services/errors';
+import { estimatePatchSchema } from '$lib/schemas/estimates-api';
 import { requireRole } from '$lib/server/auth/guard';
-import { changeStatus, getEstimate, nextStatusesFor } from '$lib/server/services/estimates';
+import { nextStatusesFor } from '$lib/estimate-status';
+import { changeStatus, getEstimate } from '$lib/server/services/estimates';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
@@ -22,7 +24,7 @@ export const actions: Actions = {
 			const moved = await changeStatus(user, event.params.id, parsed.data.status);
 			return { done: `Marked ${moved.status}.` };
 		} catch (e) {
-			if (e instanceof ApiError) return fail(e.status, { message: e.message });
+			if (e instanceof DomainError) return fail(statusOf(e), { message: e.message });
 			throw e;
 		}
 	}

@@ -1,14 +1,11 @@
 import { json } from '@sveltejs/kit';
 import { readJson } from '$lib/server/api/body';
 import { ApiError, answer, zodInvalid } from '$lib/server/api/errors';
-import { estimatePatchSchema } from '$lib/server/api/schemas';
+import { estimatePatchSchema } from '$lib/schemas/estimates-api';
 import { requireRole } from '$lib/server/auth/guard';
-import {
-	changeStatus,
-	getEstimate,
-	nextStatusesFor,
-	type EstimateDetail
-} from '$lib/server/services/estimates';
+import { nextStatusesFor } from '$lib/estimate-status';
+import type { EstimateDetail } from '$lib/types/estimate';
+import { changeStatus, getEstimate } from '$lib/server/services/estimates';
 import type { RequestHandler } from './$types';
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;

@@ -1,12 +1,7 @@
 import { z } from 'zod';
-import {
-	ACCESS_GRADES,
-	GROWTH_GRADES,
-	MATERIALS,
-	type EstimateResult
-} from '../../estimating/types';
-import { rateCardSchema } from '../../schemas/rate-card';
-import { ESTIMATE_STATUSES } from '../../estimate-status';
+import { ACCESS_GRADES, GROWTH_GRADES, MATERIALS, type EstimateResult } from '../estimating/types';
+import { rateCardSchema } from './rate-card';
+import { ESTIMATE_STATUSES } from '../estimate-status';
 
 /**
  * Query, PATCH and response schemas of the estimates API. The request body schema lives in
@@ -77,6 +72,10 @@ const note = z.object({
 	code: z.string(),
 	message: z.string(),
 	facetIds: z.array(z.string()).optional(),
+	facets: z
+		.array(z.string())
+		.optional()
+		.describe('The same facets by name: the label given, or "Facet 2" for an unlabelled one.'),
 	path: z.string().optional().describe('Input field the note is about, e.g. facets.2.edges.')
 });
 

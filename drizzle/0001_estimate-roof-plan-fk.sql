@@ -1,0 +1,2 @@
+ALTER TABLE "estimates" ADD CONSTRAINT "estimates_roof_plan_id_roof_plans_id_fk" FOREIGN KEY ("roof_plan_id") REFERENCES "public"."roof_plans"("id") ON DELETE no action ON UPDATE no action;--> statement-breakpoint
+ALTER TABLE "sites" DROP COLUMN "scene_house_id";
