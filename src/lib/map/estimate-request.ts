@@ -33,11 +33,16 @@ export function priceBody(p: Omit<SaveEstimateInput, 'roofPlanId'>) {
 }
 
 /**
- * What "Save estimate" sends. Once the API prices a saved plan from its id, this becomes
- * `{ siteId: p.siteId, roofPlanId: p.roofPlanId, save: true }`.
+ * What "Save estimate" sends: the saved plan's id, not its facets. The server loads that
+ * version's facets itself, so the estimate is always of the plan as stored.
  */
-export function saveEstimateBody(p: SaveEstimateInput) {
-	return { ...priceBody(p), roofPlanId: p.roofPlanId, save: true };
+export function saveEstimateBody(p: Omit<SaveEstimateInput, 'facets'>) {
+	return {
+		siteId: p.siteId,
+		roofPlanId: p.roofPlanId,
+		measuredOnSite: p.measuredOnSite,
+		save: true
+	};
 }
 
 export async function postEstimate(body: object, signal?: AbortSignal) {
