@@ -54,7 +54,8 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-	await server?.stop();
+	// SIGKILL, not stop(): a server already killed never sends another exit event.
+	if (server) await kill(server);
 });
 
 const headers = () => ({ authorization: `Bearer ${token}`, 'content-type': 'application/json' });
@@ -115,7 +116,8 @@ function missing(
 		const s = stored.get(id);
 		// A status change sent but cut off before its answer may or may not have landed.
 		const ok = s === a.status || (a.patchSent && a.status === 'draft' && s === 'ready');
-		if (!ok) out.push(`${id} (round ${a.round}: acknowledged ${a.status}, stored ${s ?? 'nothing'})`);
+		if (!ok)
+			out.push(`${id} (round ${a.round}: acknowledged ${a.status}, stored ${s ?? 'nothing'})`);
 	}
 	return out;
 }
