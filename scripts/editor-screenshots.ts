@@ -2,6 +2,7 @@
 // freshly seeded test server (needs `npx vite build` first): `npx tsx scripts/editor-screenshots.ts`.
 import fs from 'node:fs';
 import { openBrowser, signInAs } from '../tests/helpers/browser';
+import { house } from '../geodata/scene';
 import { DEMO, seededDataDir, startServer } from '../tests/helpers/server';
 
 const server = await startServer(seededDataDir('shots'));
@@ -17,8 +18,9 @@ try {
 		const page = ctx.pages()[0] ?? (await ctx.newPage());
 		await signInAs(page, server.url, DEMO.estimator);
 		const r = await page.request.get(`${server.url}/api/sites`);
-		const { sites } = (await r.json()) as { sites: { id: string; sceneHouseId: string | null }[] };
-		const site = sites.find((s) => s.sceneHouseId === 'h04')!;
+		const { sites } = (await r.json()) as { sites: { id: string; address: string }[] };
+		// A house the demo measured, so the editor opens on a real plan.
+		const site = sites.find((s) => s.address === house('h04')!.properties.address)!;
 		await page.goto(`${server.url}/sites/${site.id}/roof`);
 		await page.waitForFunction(
 			() => 'kind' in ((window as { __clearpitchMap?: object }).__clearpitchMap ?? {}),

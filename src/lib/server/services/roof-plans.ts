@@ -1,4 +1,4 @@
-import { and, desc, eq, max } from 'drizzle-orm';
+import { and, desc, eq, inArray, max } from 'drizzle-orm';
 import type { Polygon } from 'geojson';
 import { measurePlan } from '$lib/map/plan-measure';
 import {
@@ -248,10 +248,12 @@ export interface LatestPlanSummary {
 	squares: number;
 }
 
-/** The latest version of every site's plan in one query, for the Sites list. */
+/** The latest version of each listed site's plan in one query, for a page of the Sites list. */
 export async function latestPlanSummaries(
-	companyId: string
+	companyId: string,
+	siteIds: string[]
 ): Promise<Map<string, LatestPlanSummary>> {
+	if (siteIds.length === 0) return new Map();
 	const db = await getDb();
 	const rows = await db
 		.selectDistinctOn([roofPlans.siteId], {
@@ -261,7 +263,7 @@ export async function latestPlanSummaries(
 			facets: roofPlans.facets
 		})
 		.from(roofPlans)
-		.where(eq(roofPlans.companyId, companyId))
+		.where(and(eq(roofPlans.companyId, companyId), inArray(roofPlans.siteId, siteIds)))
 		.orderBy(roofPlans.siteId, desc(roofPlans.version));
 	const out = new Map<string, LatestPlanSummary>();
 	for (const r of rows) {

@@ -1,6 +1,6 @@
 import fs from 'node:fs/promises';
 import path from 'node:path';
-import { and, asc, eq, ilike, or } from 'drizzle-orm';
+import { and, asc, count, eq, ilike, or } from 'drizzle-orm';
 import { z } from 'zod';
 import type { Imagery } from '$lib/map/imagery';
 import type { SiteInput } from '$lib/schemas/site';
@@ -16,27 +16,70 @@ export type SiteSummary = {
 	customerName: string;
 };
 
+/** Search text for ILIKE: % and _ are wildcards to it, and a search for "50%" means the characters. */
+const likeText = (q?: string) => {
+	const t = q?.trim();
+	return t ? `%${t.replace(/[\\%_]/g, (c) => `\\${c}`)}%` : undefined;
+};
+
+const searchFilter = (companyId: string, q?: string) => {
+	const like = likeText(q);
+	return and(
+		eq(sites.companyId, companyId),
+		like ? or(ilike(sites.address, like), ilike(customers.name, like)) : undefined
+	);
+};
+
+const summary = {
+	id: sites.id,
+	address: sites.address,
+	lat: sites.lat,
+	lon: sites.lon,
+	customerName: customers.name
+};
+
+/** Every site of the company: only for small pickers; lists use `listSitesPage`. */
 export async function listSites(companyId: string, q?: string): Promise<SiteSummary[]> {
 	const db = await getDb();
-	// % and _ are wildcards to ILIKE; a search for "50%" means the characters.
-	const text = q?.trim().replace(/[\\%_]/g, (c) => `\\${c}`);
 	return db
-		.select({
-			id: sites.id,
-			address: sites.address,
-			lat: sites.lat,
-			lon: sites.lon,
-			customerName: customers.name
-		})
+		.select(summary)
 		.from(sites)
 		.innerJoin(customers, eq(customers.id, sites.customerId))
-		.where(
-			and(
-				eq(sites.companyId, companyId),
-				text ? or(ilike(sites.address, `%${text}%`), ilike(customers.name, `%${text}%`)) : undefined
-			)
-		)
-		.orderBy(asc(sites.address));
+		.where(searchFilter(companyId, q))
+		.orderBy(asc(sites.address), asc(sites.id));
+}
+
+export type SitePage = { items: SiteSummary[]; total: number; page: number; pageSize: number };
+
+/**
+ * One page of the company's sites in address order, with the number that match. The order reads
+ * the (company, address, id) index, so a page costs the same with 10 sites or 10,000.
+ */
+export async function listSitesPage(
+	companyId: string,
+	f: { q?: string; page: number; pageSize: number }
+): Promise<SitePage> {
+	const db = await getDb();
+	const filter = searchFilter(companyId, f.q);
+	const counted = likeText(f.q)
+		? db
+				.select({ n: count() })
+				.from(sites)
+				.innerJoin(customers, eq(customers.id, sites.customerId))
+				.where(filter)
+		: db.select({ n: count() }).from(sites).where(eq(sites.companyId, companyId));
+	const [[{ n }], items] = await Promise.all([
+		counted,
+		db
+			.select(summary)
+			.from(sites)
+			.innerJoin(customers, eq(customers.id, sites.customerId))
+			.where(filter)
+			.orderBy(asc(sites.address), asc(sites.id))
+			.limit(f.pageSize)
+			.offset((f.page - 1) * f.pageSize)
+	]);
+	return { items, total: n, page: f.page, pageSize: f.pageSize };
 }
 
 export async function getSite(companyId: string, siteId: string) {

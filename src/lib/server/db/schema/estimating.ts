@@ -58,7 +58,12 @@ export const estimates = pgTable(
 		createdBy: uuid('created_by').references(() => users.id),
 		...timestamps
 	},
-	(t) => [index('estimates_company_idx').on(t.companyId), index('estimates_site_idx').on(t.siteId)]
+	// The estimates list pages newest first (created_at desc, id desc: these indexes read
+	// backwards), for the company or for one site.
+	(t) => [
+		index('estimates_company_created_idx').on(t.companyId, t.createdAt, t.id),
+		index('estimates_site_created_idx').on(t.siteId, t.createdAt, t.id)
+	]
 );
 
 /** A roof plan is versioned: a later site visit edits a copy. */

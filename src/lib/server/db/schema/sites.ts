@@ -41,5 +41,6 @@ export const sites = pgTable(
 		flags: jsonb('flags').$type<SiteFlags>().notNull().default({}),
 		...timestamps
 	},
-	(t) => [index('sites_company_idx').on(t.companyId)]
+	// The Sites list pages through a company's sites in address order.
+	(t) => [index('sites_company_address_idx').on(t.companyId, t.address, t.id)]
 );
