@@ -22,6 +22,7 @@ import type { PlanFacet } from '../schemas/roof-plan';
 import type { EditorMap, EditorMapOptions, FacetLabel, MapTestHandle } from './editor-map';
 import { EDGE_STYLES, GROWTH_COLOURS, MAX_VIEW_ZOOM_256 } from './imagery';
 import { labelPoint } from './label-point';
+import { escapeHtml } from './escape-html';
 import { createSnapIndex, snapPoint, snapTolerancePx, type LonLat, type SnapIndex } from './snap';
 
 /* eslint-disable @typescript-eslint/no-explicit-any */
@@ -115,7 +116,7 @@ function styleFor(imagery: EditorMapOptions['imagery']): StyleSpecification {
 				minzoom: imagery.minZoom,
 				maxzoom: imagery.maxZoom,
 				...(imagery.bounds ? { bounds: imagery.bounds } : {}),
-				attribution: imagery.attribution
+				attribution: escapeHtml(imagery.attribution)
 			}
 		},
 		layers: [
