@@ -13,7 +13,6 @@ import { escapeHtml } from './escape-html';
 
 export { L };
 
-
 export function imageryLayer(imagery: Imagery): L.TileLayer {
 	const b = imagery.bounds;
 	return L.tileLayer(imagery.tiles, {
