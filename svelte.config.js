@@ -9,23 +9,28 @@ const config = {
 		adapter: adapter({ out: 'build' }),
 		// Form posts from another origin are refused; JSON APIs add their own Origin check.
 		csrf: { trustedOrigins: [] },
-		// A slip that lets user text in as markup still runs nothing: scripts need the nonce kit
-		// adds to its own. Styles stay inline-able (Svelte, Leaflet and MapLibre set them); images
-		// and tile requests may come from the owner's own https imagery source (Settings).
+		// A second line behind text-only rendering: an injected script or handler is refused.
+		// 'auto' gives rendered pages a nonce and prerendered ones a hash; no 'unsafe-inline' script.
 		csp: {
 			mode: 'auto',
 			directives: {
 				'default-src': ['self'],
 				'script-src': ['self'],
+				// MapLibre starts its worker from a blob: URL.
+				'worker-src': ['self', 'blob:'],
+				'child-src': ['self', 'blob:'],
+				// Svelte, Leaflet and MapLibre set style attributes; styles cannot run script.
 				'style-src': ['self', 'unsafe-inline'],
+				// The owner may set any https imagery host in Settings (validated as https://),
+				// so tiles and their fetches may come from any https origin; plus data:/blob:
+				// images that Leaflet, MapLibre and chart.js make.
 				'img-src': ['self', 'data:', 'blob:', 'https:'],
 				'connect-src': ['self', 'https:'],
-				'worker-src': ['self', 'blob:'],
-				'font-src': ['self', 'data:'],
+				'font-src': ['self'],
 				'object-src': ['none'],
 				'base-uri': ['self'],
-				'form-action': ['self'],
-				'frame-ancestors': ['none']
+				'frame-ancestors': ['none'],
+				'form-action': ['self']
 			}
 		}
 	}

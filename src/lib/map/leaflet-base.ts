@@ -9,13 +9,9 @@ import type { Polygon } from 'geojson';
 import type { PlanFacet } from '../schemas/roof-plan';
 import { GROWTH_COLOURS, MAX_VIEW_ZOOM_256, type Imagery } from './imagery';
 import { labelPoint } from './label-point';
+import { escapeHtml } from './escape-html';
 
 export { L };
-
-/** Leaflet puts attribution in as HTML; the owner's text is text. */
-export function escapeHtml(s: string): string {
-	return s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
-}
 
 export function imageryLayer(imagery: Imagery): L.TileLayer {
 	const b = imagery.bounds;

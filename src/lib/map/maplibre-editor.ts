@@ -23,6 +23,7 @@ import type { EditorMap, EditorMapOptions, FacetLabel, MapTestHandle } from './e
 import { DRAW_STYLES, growthColour } from './draw-styles';
 import { EDGE_STYLES, MAX_VIEW_ZOOM_256 } from './imagery';
 import { labelPoint } from './label-point';
+import { escapeHtml } from './escape-html';
 import { createSnapIndex, snapPoint, snapTolerancePx, type LonLat, type SnapIndex } from './snap';
 
 /* eslint-disable @typescript-eslint/no-explicit-any */
@@ -55,7 +56,7 @@ function styleFor(imagery: EditorMapOptions['imagery']): StyleSpecification {
 				minzoom: imagery.minZoom,
 				maxzoom: imagery.maxZoom,
 				...(imagery.bounds ? { bounds: imagery.bounds } : {}),
-				attribution: imagery.attribution
+				attribution: escapeHtml(imagery.attribution)
 			}
 		},
 		layers: [
