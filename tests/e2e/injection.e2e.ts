@@ -286,3 +286,27 @@ describe('no payload runs where the text is shown', () => {
 		await expectClean(page, 'the roof editor with the attribution');
 	});
 });
+
+describe('the Content-Security-Policy', () => {
+	it('is sent on pages, lets only nonce’d scripts run, and blocks an inline handler that slips in', async () => {
+		const r = await page.request.get(`${server.url}/`);
+		const csp = r.headers()['content-security-policy'] ?? '';
+		expect(csp).toMatch(/script-src [^;]*'self'/);
+		expect(csp).toMatch(/script-src [^;]*'nonce-/);
+		expect(csp).not.toMatch(/script-src [^;]*'unsafe-inline'/);
+		expect(csp).toMatch(/object-src 'none'/);
+		expect(csp).toMatch(/frame-ancestors 'none'/);
+
+		// A future slip, simulated: markup with an inline handler put into the live page.
+		await page.goto(`${server.url}/`);
+		await page.evaluate(() => {
+			const div = document.createElement('div');
+			div.innerHTML = `<img src=x onerror="window.__slip=1">`;
+			document.body.append(div);
+		});
+		await page.locator('img[src=x]').waitFor({ state: 'attached' });
+		// The error event fires at once for src=x; give the handler (if allowed) its turn.
+		await page.evaluate(() => new Promise((r) => requestAnimationFrame(() => setTimeout(r, 0))));
+		expect(await page.evaluate(() => (window as { __slip?: number }).__slip)).toBeUndefined();
+	});
+});

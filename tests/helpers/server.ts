@@ -53,6 +53,9 @@ export async function startServer(
 			ORIGIN: `http://localhost:${port}`,
 			CLEARPITCH_DATA_DIR: dataDir,
 			DATABASE_URL: '',
+			// Node closes an idle keep-alive socket after 5 s; a test client that reuses it at that
+			// moment gets ECONNRESET. Outlast the clients' own idle time instead.
+			KEEP_ALIVE_TIMEOUT: '65',
 			...extraEnv
 		},
 		stdio: ['ignore', 'pipe', 'pipe']
