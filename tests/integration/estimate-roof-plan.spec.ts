@@ -73,10 +73,11 @@ afterAll(async () => server?.stop());
  * The fields these tests read from any reply (plan, estimate, refusal). Each is asserted at run
  * time, so a missing one fails the check that reads it.
  */
+type FacetReply = Record<string, unknown> & { id: string; pitch: number };
 type Reply = {
 	message: string;
 	issues: { path: string; message: string }[];
-	plan: { id: string; facets: Record<string, unknown>[] };
+	plan: { id: string; facets: FacetReply[] };
 	estimate: { id: string };
 	price: unknown;
 	totals: unknown;
@@ -199,7 +200,7 @@ describe('an estimate saved from a roofPlanId', () => {
 });
 
 /** A roof-plan facet as /api/estimates takes it. */
-function toEstimateFacet(f: Record<string, unknown>): Record<string, unknown> {
+function toEstimateFacet(f: FacetReply): FacetReply {
 	const { geometry, outline, label, ...rest } = f;
 	return {
 		...rest,

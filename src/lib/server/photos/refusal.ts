@@ -23,7 +23,7 @@ export class PhotoRefusal extends Error {
 }
 
 /** The user's file name as shown back in a message: trimmed, control characters removed. */
-export function displayName(name: string): string {
+function displayName(name: string): string {
 	// Unicode's Cc category: the C0 controls, DEL and the C1 controls.
 	const clean = String(name ?? '')
 		.replace(/\p{Cc}/gu, '')
