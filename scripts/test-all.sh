@@ -18,6 +18,8 @@ echo "== format and types"
 npx prettier --check . --log-level warn
 npx svelte-kit sync
 npx svelte-check --tsconfig ./tsconfig.json --fail-on-warnings --output human
+npx eslint . --max-warnings 0
+npx knip --no-progress
 
 echo "== sample imagery"
 node geodata/generate-tiles.js

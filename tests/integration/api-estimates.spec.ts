@@ -53,6 +53,26 @@ function headers(auth: Auth, extra: Record<string, string> = {}): Record<string,
 	};
 }
 
+/**
+ * The fields these tests read from any reply (estimate, list, refusal). Each is asserted at run
+ * time, so a missing one fails the check that reads it.
+ */
+type Reply = {
+	message: string;
+	issues: { path: string; message: string }[];
+	estimate: { id: string; status: string };
+	facets: { squares: number; priceCents: number }[];
+	price: { totalCents: number; minimumAdjustmentCents: number; taxCents: number };
+	rateCard: { id: string; version: number };
+	result: { facets: { priceCents: number }[] };
+	status: string;
+	nextStatuses: string[];
+	totalCents: number;
+	total: number;
+	page: number;
+	items: { id: string; customerName: string }[];
+};
+
 async function call(
 	method: string,
 	path: string,
@@ -69,7 +89,7 @@ async function call(
 		body: body === undefined ? undefined : typeof body === 'string' ? body : JSON.stringify(body)
 	});
 	const text = await res.text();
-	let json: any = null;
+	let json = null as unknown as Reply;
 	try {
 		json = JSON.parse(text);
 	} catch {

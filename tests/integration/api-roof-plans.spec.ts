@@ -78,7 +78,7 @@ async function call(
 		body: body === undefined ? undefined : typeof body === 'string' ? body : JSON.stringify(body)
 	});
 	const text = await res.text();
-	let parsed: Record<string, unknown> & { [k: string]: any } = {}; // eslint-disable-line @typescript-eslint/no-explicit-any
+	let parsed: Record<string, unknown> & { [k: string]: any }; // eslint-disable-line @typescript-eslint/no-explicit-any
 	try {
 		parsed = JSON.parse(text);
 	} catch {

@@ -69,6 +69,24 @@ beforeAll(async () => {
 });
 afterAll(async () => server?.stop());
 
+/**
+ * The fields these tests read from any reply (plan, estimate, refusal). Each is asserted at run
+ * time, so a missing one fails the check that reads it.
+ */
+type FacetReply = Record<string, unknown> & { id: string; pitch: number };
+type Reply = {
+	message: string;
+	issues: { path: string; message: string }[];
+	plan: { id: string; facets: FacetReply[] };
+	estimate: { id: string };
+	price: unknown;
+	totals: unknown;
+	roofPlanId: string | null;
+	siteId: string;
+	input: { facets: { id: string }[] };
+	total: number;
+};
+
 async function post(body: unknown, path = '/api/estimates') {
 	const res = await fetch(server.url + path, {
 		method: 'POST',
@@ -79,14 +97,14 @@ async function post(body: unknown, path = '/api/estimates') {
 		},
 		body: JSON.stringify(body)
 	});
-	return { status: res.status, json: (await res.json()) as any };
+	return { status: res.status, json: (await res.json()) as Reply };
 }
 
 async function get(path: string) {
 	const res = await fetch(server.url + path, {
 		headers: { accept: 'application/json', authorization: `Bearer ${prep.ownerToken}` }
 	});
-	return { status: res.status, json: (await res.json()) as any };
+	return { status: res.status, json: (await res.json()) as Reply };
 }
 
 const paths = (json: { issues?: { path: string }[] }) => (json.issues ?? []).map((i) => i.path);
@@ -182,7 +200,7 @@ describe('an estimate saved from a roofPlanId', () => {
 });
 
 /** A roof-plan facet as /api/estimates takes it. */
-function toEstimateFacet(f: Record<string, unknown>): Record<string, unknown> {
+function toEstimateFacet(f: FacetReply): FacetReply {
 	const { geometry, outline, label, ...rest } = f;
 	return {
 		...rest,

@@ -26,7 +26,3 @@ export class EstimateInputError extends Error {
 }
 
 export const pathToString = (path: ReadonlyArray<string | number>): string => path.join('.');
-
-export function isEstimateInputError(e: unknown): e is EstimateInputError {
-	return e instanceof EstimateInputError;
-}

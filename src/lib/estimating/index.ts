@@ -30,11 +30,9 @@ import { ft2ToSquares } from './units';
 export * from './types';
 export * from './errors';
 export { DEFAULT_RATE_CARD, cloneRateCard } from './rate-card';
-export type { RateCard, MaterialRate, GrowthRate, MultiplierPair, RangePcts } from './rate-card';
-export { pitchMultiplier, hipValleyFactor, rafterInchesPerFootRun, pitchAngleDeg } from './pitch';
-export { measureFacetPlan, ellipsoidAreaCorrection, eaveLength } from './geometry';
-export { stockVolume } from './chemistry';
-export { NOT_WALKABLE, accessRefusal } from './access';
+export type { RateCard } from './rate-card';
+export { pitchMultiplier } from './pitch';
+export { NOT_WALKABLE } from './access';
 
 /** Above this the "stock" is unlikely to be sodium hypochlorite as sold (10–14% is usual). */
 const STRONGEST_USUAL_STOCK_PCT = 15;

@@ -13,12 +13,6 @@ export function roundCents(x: number): number {
 /** pct of an amount in cents, rounded once. */
 export const pctOf = (cents: number, pct: number): number => roundCents((cents * pct) / 100);
 
-export function sumCents(items: ReadonlyArray<{ amountCents: number }>): number {
-	let s = 0;
-	for (const it of items) s += it.amountCents;
-	return s;
-}
-
 /** "$1,234.56" / "−$5.00": for line-item details only, never for arithmetic. */
 export function formatCents(cents: number): string {
 	const neg = cents < 0;

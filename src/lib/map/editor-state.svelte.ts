@@ -157,6 +157,8 @@ export class EditorState {
 	}
 
 	nextLabel(): string {
+		// A lookup local to this call, never state: nothing reacts to it.
+		// eslint-disable-next-line svelte/prefer-svelte-reactivity
 		const used = new Set(this.facets.map((f) => f.label));
 		let n = Math.max(this.#counter, this.facets.length) + 1;
 		while (used.has(`Facet ${n}`)) n++;

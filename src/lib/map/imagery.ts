@@ -62,8 +62,3 @@ export const EDGE_STYLES = {
 	hip: { colour: '#c0693f', dash: [1, 1.5] },
 	valley: { colour: '#1b4f8a', dash: [4, 1.5, 1, 1.5] }
 } as const;
-
-/** Darkest growth colours need light text on them. */
-export function textOn(growth: keyof typeof GROWTH_COLOURS): string {
-	return growth === 'G4' ? '#fbfaf7' : '#1b2229';
-}

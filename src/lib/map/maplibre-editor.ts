@@ -126,7 +126,14 @@ export async function createMapLibreEditor(opts: EditorMapOptions): Promise<Edit
 	let snapping = true;
 	let snapCache: { index: SnapIndex; exclude: string | null } | null = null;
 	let drawState: any = null;
+	/**
+	 * The active draw mode's context (`this` inside its handlers). Draw offers no public way to
+	 * reach it from outside, and the toolbar's cancel / place-corner buttons need its methods.
+	 */
 	let drawMode: any = null;
+	const trackMode = (mode: any) => {
+		drawMode = mode;
+	};
 	let directState: any = null;
 	let selectId: string | null = null;
 	let liveFrame = 0;
@@ -327,7 +334,7 @@ export async function createMapLibreEditor(opts: EditorMapOptions): Promise<Edit
 			onSetup(this: any, o: unknown) {
 				const state = DP.onSetup.call(this, o);
 				drawState = state;
-				drawMode = this;
+				trackMode(this);
 				invalidateSnap();
 				return state;
 			},
@@ -369,7 +376,7 @@ export async function createMapLibreEditor(opts: EditorMapOptions): Promise<Edit
 			onSetup(this: any, o: unknown) {
 				const state = DS.onSetup.call(this, o);
 				directState = state;
-				drawMode = this;
+				trackMode(this);
 				return state;
 			},
 			dragVertex(this: any, state: any, e: DrawEvent, delta: unknown) {
@@ -404,7 +411,7 @@ export async function createMapLibreEditor(opts: EditorMapOptions): Promise<Edit
 		const simple_select: DrawMode = {
 			...SS,
 			onSetup(this: any, o: unknown) {
-				drawMode = this;
+				trackMode(this);
 				return SS.onSetup.call(this, o);
 			},
 			onDrag(this: any, state: any, e: unknown) {

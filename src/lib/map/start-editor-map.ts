@@ -10,6 +10,8 @@ export type Engine = 'maplibre' | 'leaflet';
 export async function startEditorMap(
 	opts: EditorMapOptions
 ): Promise<{ map: EditorMap; engine: Engine }> {
+	// The container belongs to the map engines, not to Svelte: clear what a previous one left.
+	opts.container.replaceChildren();
 	try {
 		if (!hasWebGL2()) throw new Error('no WebGL2');
 		const { createMapLibreEditor } = await import('./maplibre-editor');

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { ROLES } from '$lib/roles';
-import { NO_NUL, NUL_MESSAGE } from './form';
+import { noNul, NUL_MESSAGE } from './form';
 
 export const email = z
 	.string({ error: 'Enter an e-mail address.' })
@@ -26,7 +26,7 @@ export const inviteSchema = z.object({
 		.trim()
 		.min(1, 'Enter a name.')
 		.max(120, 'Keep the name under 120 characters.')
-		.regex(NO_NUL, NUL_MESSAGE),
+		.refine(noNul, NUL_MESSAGE),
 	email,
 	role: z.enum(ROLES, { error: `Choose a role: ${ROLES.join(', ')}.` }),
 	password: newPassword
@@ -53,5 +53,5 @@ export const tokenSchema = z.object({
 		.trim()
 		.min(1, 'Name the token.')
 		.max(80, 'Keep the name under 80 characters.')
-		.regex(NO_NUL, NUL_MESSAGE)
+		.refine(noNul, NUL_MESSAGE)
 });

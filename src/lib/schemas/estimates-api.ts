@@ -39,7 +39,6 @@ export const estimateListQuerySchema = z.object({
 		`Items per page, at most ${MAX_PAGE_SIZE}.`
 	)
 });
-export type EstimateListQuery = z.infer<typeof estimateListQuerySchema>;
 
 /** Query parameters as zod sees them: empty ones count as absent. */
 export function queryObject(params: URLSearchParams): Record<string, string> {
@@ -195,9 +194,6 @@ export const estimateListSchema = z.object({
 	page: z.int(),
 	pageSize: z.int()
 });
-
-/** GET /api/estimates as the client receives it (dates are ISO strings). */
-export type EstimateList = z.infer<typeof estimateListSchema>;
 
 export const estimateDetailSchema = z.object({
 	id: z.uuid(),

@@ -4,7 +4,7 @@ import type { z } from 'zod';
  * PostgreSQL text cannot hold U+0000, so a NUL in stored free text fails the write; refuse it
  * at the edge with a field message instead.
  */
-export const NO_NUL = /^[^\u0000]*$/;
+export const noNul = (text: string): boolean => !text.includes('\u0000');
 export const NUL_MESSAGE = 'Remove the control character (NUL) from this text.';
 
 export type FieldErrors = Record<string, string>;

@@ -136,5 +136,3 @@ export const rateCardSchema = z
 			}
 		}
 	}) satisfies z.ZodType<RateCard>; // a parsed card is exactly what the model takes
-
-export type RateCardData = z.infer<typeof rateCardSchema>;

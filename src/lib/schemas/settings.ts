@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { NO_NUL, NUL_MESSAGE } from './form';
+import { noNul, NUL_MESSAGE } from './form';
 
 /** An XYZ template of a licensed imagery provider, or blank for the bundled sample. */
 export const imagerySchema = z.object({
@@ -7,7 +7,7 @@ export const imagerySchema = z.object({
 		.string()
 		.trim()
 		.max(500, 'Keep the template under 500 characters.')
-		.regex(NO_NUL, NUL_MESSAGE)
+		.refine(noNul, NUL_MESSAGE)
 		.transform((v) => v || null)
 		.refine(
 			(v) =>
@@ -18,6 +18,6 @@ export const imagerySchema = z.object({
 		.string()
 		.trim()
 		.max(200, 'Keep the attribution under 200 characters.')
-		.regex(NO_NUL, NUL_MESSAGE)
+		.refine(noNul, NUL_MESSAGE)
 		.transform((v) => v || null)
 });

@@ -1,12 +1,12 @@
 import { z } from 'zod';
-import { NO_NUL, NUL_MESSAGE } from './form';
+import { noNul, NUL_MESSAGE } from './form';
 
 const optionalText = (max: number, label: string) =>
 	z
 		.string()
 		.trim()
 		.max(max, `${label} is too long (max ${max} characters).`)
-		.regex(NO_NUL, NUL_MESSAGE)
+		.refine(noNul, NUL_MESSAGE)
 		.optional()
 		.transform((v) => (v ? v : undefined));
 
@@ -23,7 +23,7 @@ export const siteSchema = z.object({
 		.trim()
 		.min(1, 'Enter the customer’s name.')
 		.max(120)
-		.regex(NO_NUL, NUL_MESSAGE),
+		.refine(noNul, NUL_MESSAGE),
 	customerEmail: z
 		.string()
 		.trim()
@@ -37,7 +37,7 @@ export const siteSchema = z.object({
 		.trim()
 		.min(3, 'Enter the street address.')
 		.max(200)
-		.regex(NO_NUL, NUL_MESSAGE),
+		.refine(noNul, NUL_MESSAGE),
 	lat: coord(-90, 90, 'Latitude'),
 	lon: coord(-180, 180, 'Longitude'),
 	notes: optionalText(2000, 'Notes'),

@@ -10,7 +10,8 @@ import {
 	DEFAULT_RATE_CARD,
 	estimate,
 	EstimateInputError,
-	MATERIALS
+	MATERIALS,
+	type RateCard
 } from '../../../src/lib/estimating';
 import { gableRoof, localPlane, WRENFIELD } from './fixtures';
 
@@ -188,7 +189,8 @@ describe('rateCardSchema', () => {
 	});
 
 	it('gives each bad figure a field error the Rates page can show', () => {
-		const card = cloneRateCard() as unknown as Record<string, any>;
+		// Numbers out of range still type-check; only the missing tax rate needs the looser type.
+		const card: Omit<RateCard, 'taxPct'> & { taxPct?: number } = cloneRateCard();
 		card.materials.slate.perSquareCents = -5;
 		card.materials.metal.minStrengthPct = 5; // above its max of 4
 		card.growth.G2.priceMultiplier = 20;

@@ -3,14 +3,8 @@ import type { AccessGrade, GrowthGrade, Material } from '$lib/estimating/types';
 /** Display only: the model works in integer cents and full-precision areas. */
 
 const usd = new Intl.NumberFormat('en-US', { style: 'currency', currency: 'USD' });
-const usd0 = new Intl.NumberFormat('en-US', {
-	style: 'currency',
-	currency: 'USD',
-	maximumFractionDigits: 0
-});
 
 export const money = (cents: number) => usd.format(cents / 100);
-export const moneyWhole = (cents: number) => usd0.format(cents / 100);
 
 export function signedMoney(cents: number): string {
 	if (cents === 0) return '±$0.00';

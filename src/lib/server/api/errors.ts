@@ -3,7 +3,7 @@ import type { z } from 'zod';
 import { Conflict, DomainError, Forbidden, Invalid, NotFound } from '../services/errors';
 import { invalidRefusal, issuesOf, type ApiIssue, type Refusal } from './refusal';
 
-export { issuesOf, toPath, type ApiIssue } from './refusal';
+export { type ApiIssue } from './refusal';
 
 /** Every 4xx this API sends has this body. */
 export interface ApiErrorBody {

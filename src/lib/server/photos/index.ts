@@ -1,20 +1,47 @@
 import { env } from '../env';
 import type { PhotoLimits } from './process';
 
-export { checkPhotoBytes, PHOTO_TYPES, type PhotoType } from './check';
-export { readPhotoExif, type PhotoExif, type PhotoPosition } from './exif';
+// The module's API for the site-visit photo routes that come next; `@public` keeps knip from
+// reporting what only those routes will use.
+
+export {
+	/** @public The upload form's accepted types, used by the site-visit photo routes. */
+	PHOTO_TYPES,
+	/** @public Used by the site-visit photo routes. */
+	type PhotoType
+} from './check';
+export {
+	/** @public Part of a processed photo, used by the site-visit photo routes. */
+	type PhotoExif,
+	/** @public Part of a processed photo, used by the site-visit photo routes. */
+	type PhotoPosition
+} from './exif';
 export {
 	processPhoto,
-	DISPLAY_SIDE,
-	THUMBNAIL_SIDE,
+	/** @public Used by the site-visit photo routes. */
 	type PhotoLimits,
 	type ProcessedPhoto,
+	/** @public Part of a processed photo, used by the site-visit photo routes. */
 	type Rendition
 } from './process';
-export { PhotoRefusal, displayName, type PhotoRefusalReason } from './refusal';
-export { checkRoomForPhotos, deletePhoto, storePhoto, type StoredPhoto } from './store';
+export {
+	PhotoRefusal,
+	/** @public The routes map a refusal's reason to its 4xx status. */
+	type PhotoRefusalReason
+} from './refusal';
+export {
+	checkRoomForPhotos,
+	/** @public Used by the site-visit photo routes when a photo is removed. */
+	deletePhoto,
+	storePhoto,
+	/** @public Used by the site-visit photo routes. */
+	type StoredPhoto
+} from './store';
 
-/** The limits from the environment (CLEARPITCH_PHOTO_MAX_MB, CLEARPITCH_PHOTO_MAX_MEGAPIXELS). */
+/**
+ * The limits from the environment (CLEARPITCH_PHOTO_MAX_MB, CLEARPITCH_PHOTO_MAX_MEGAPIXELS).
+ * @public Used by the site-visit photo routes.
+ */
 export function photoLimits(): PhotoLimits {
 	return { maxBytes: env.photoMaxBytes, maxPixels: env.photoMaxPixels };
 }

@@ -19,8 +19,8 @@ export type ProcessedPhoto = PhotoExif & {
 	thumbnail: Rendition;
 };
 
-export const DISPLAY_SIDE = 2048;
-export const THUMBNAIL_SIDE = 320;
+const DISPLAY_SIDE = 2048;
+const THUMBNAIL_SIDE = 320;
 
 /**
  * Checks one uploaded photo and makes what Clearpitch keeps of it: position and time read from

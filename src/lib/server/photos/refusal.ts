@@ -23,10 +23,10 @@ export class PhotoRefusal extends Error {
 }
 
 /** The user's file name as shown back in a message: trimmed, control characters removed. */
-export function displayName(name: string): string {
-	// eslint-disable-next-line no-control-regex
+function displayName(name: string): string {
+	// Unicode's Cc category: the C0 controls, DEL and the C1 controls.
 	const clean = String(name ?? '')
-		.replace(/[\u0000-\u001f\u007f]/g, '')
+		.replace(/\p{Cc}/gu, '')
 		.trim();
 	return (clean || 'unnamed file').slice(0, 120);
 }

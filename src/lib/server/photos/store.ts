@@ -37,7 +37,10 @@ export async function storePhoto(
 	return { displayKey, thumbnailKey };
 }
 
-/** Removes both copies (the row that named them goes in the same request). */
+/**
+ * Removes both copies (the row that named them goes in the same request).
+ * @public Used by the site-visit photo routes when a photo is removed.
+ */
 export async function deletePhoto(storage: Storage, stored: StoredPhoto): Promise<void> {
 	await storage.delete(stored.displayKey);
 	await storage.delete(stored.thumbnailKey);

@@ -3,7 +3,7 @@ import { house, planFacetsOf } from '../../../../geodata/scene';
 import type { Role } from '$lib/roles';
 import { savePlanSchema } from '$lib/schemas/roof-plan';
 import { getDb } from '../db';
-import { estimates, roofPlans, sites, users } from '../db/schema';
+import { roofPlans, sites, users } from '../db/schema';
 import { changeStatus, priceEstimateBody, type EstimateStatus } from '../services/estimates';
 import { savePlan } from '../services/roof-plans';
 
@@ -70,13 +70,4 @@ export async function seedSamples(
 		}
 	}
 	return made;
-}
-
-export async function estimateCount(companyId: string): Promise<number> {
-	const db = await getDb();
-	const [{ n }] = await db
-		.select({ n: count() })
-		.from(estimates)
-		.where(eq(estimates.companyId, companyId));
-	return n;
 }

@@ -1,6 +1,6 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { PREVIEW_ROOFS } from '$lib/rates/preview-roofs';
-import { NO_NUL, NUL_MESSAGE, formObject } from '$lib/schemas/form';
+import { noNul, NUL_MESSAGE, formObject } from '$lib/schemas/form';
 import { requireRole } from '$lib/server/auth/guard';
 import { rateCardHistory, saveRateCard } from '$lib/server/services/rate-cards';
 import { diffCards, formToCard } from './card-form';
@@ -36,7 +36,7 @@ export const actions: Actions = {
 		if (note.length > MAX_NOTE) {
 			return fail(400, { values, note, errors: { note: `At most ${MAX_NOTE} characters` } });
 		}
-		if (!NO_NUL.test(note)) return fail(400, { values, note, errors: { note: NUL_MESSAGE } });
+		if (!noNul(note)) return fail(400, { values, note, errors: { note: NUL_MESSAGE } });
 		const parsed = formToCard(values);
 		if (!parsed.ok) return fail(400, { values, note, errors: parsed.errors });
 		const [latest] = await rateCardHistory(user.companyId);
