@@ -23,4 +23,3 @@ export const siteListQuerySchema = z.object({
 		`Sites per page, at most ${MAX_SITE_PAGE_SIZE}.`
 	)
 });
-export type SiteListQuery = z.infer<typeof siteListQuerySchema>;
