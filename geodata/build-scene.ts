@@ -14,6 +14,7 @@
 import { writeFileSync } from 'node:fs';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import geographiclib from 'geographiclib-geodesic';
+import { mulberry32 } from './prng.js';
 
 export type Edge = 'eave' | 'rake' | 'ridge' | 'hip' | 'valley';
 export type Material =
@@ -995,18 +996,6 @@ function roundedRect(x0: number, y0: number, x1: number, y1: number, r: number):
 		...arc(x0 + r, y1 - r, r, 90, 180, 6),
 		...arc(x0 + r, y0 + r, r, 180, 270, 6)
 	];
-}
-
-/** Deterministic PRNG for the scattered trees. */
-function mulberry32(seed: number) {
-	let a = seed >>> 0;
-	return () => {
-		a = (a + 0x6d2b79f5) >>> 0;
-		let t = a;
-		t = Math.imul(t ^ (t >>> 15), t | 1);
-		t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-		return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-	};
 }
 
 function distToSeg(p: Pt, a: Pt, b: Pt) {

@@ -19,6 +19,7 @@ import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { Worker, isMainThread, parentPort, workerData } from 'node:worker_threads';
 import { createCanvas, ImageData } from '@napi-rs/canvas';
+import { mulberry32 } from './prng.js';
 
 /** Bump when the look changes on purpose; the stamp also records this file's own hash. */
 export const GENERATOR_VERSION = '1.0.0';
@@ -57,18 +58,6 @@ function light(nDotL) {
 
 // ---------------------------------------------------------------------------------------------
 // Randomness: mulberry32 for per-feature constants, integer hashing for position noise
-
-/** @param {number} seed */
-export function mulberry32(seed) {
-	let a = seed >>> 0;
-	return () => {
-		a = (a + 0x6d2b79f5) >>> 0;
-		let t = a;
-		t = Math.imul(t ^ (t >>> 15), t | 1);
-		t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-		return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-	};
-}
 
 /** FNV-1a, to seed a feature's PRNG from its id. @param {string} s */
 function seedOf(s) {

@@ -33,3 +33,26 @@ export async function sessionFor(base: string, role: keyof typeof DEMO): Promise
 	if (!r.cookie) throw new Error(`Sign-in as ${role} failed with ${r.status}`);
 	return r.cookie;
 }
+
+/**
+ * Creates something through the JSON API with a bearer token, for a test's setup: anything but a
+ * 201 throws with the server's answer, so a broken setup fails loudly rather than a later check.
+ */
+export async function createWithToken<T>(
+	base: string,
+	token: string,
+	path: string,
+	body: unknown
+): Promise<T> {
+	const res = await fetch(base + path, {
+		method: 'POST',
+		headers: {
+			authorization: `Bearer ${token}`,
+			'content-type': 'application/json',
+			accept: 'application/json'
+		},
+		body: JSON.stringify(body)
+	});
+	if (res.status !== 201) throw new Error(`${path}: ${res.status} ${await res.text()}`);
+	return (await res.json()) as T;
+}

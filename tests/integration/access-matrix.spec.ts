@@ -7,7 +7,7 @@ import { PGlite } from '@electric-sql/pglite';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ROLES, type Role } from '../../src/lib/roles';
 import { hashSessionToken, newSessionToken } from '../../src/lib/server/auth/tokens';
-import { signIn } from '../helpers/http';
+import { createWithToken, signIn } from '../helpers/http';
 import { listRoutes, type RouteInfo } from '../helpers/routes';
 import { DEMO, seededDataDir, startServer, type TestServer } from '../helpers/server';
 import { planFacetsOf } from '../../geodata/scene';
@@ -198,19 +198,9 @@ beforeAll(async () => {
 	// The test seed has no plans or estimates: make one of each through the API.
 	const site = prep.sites.find((s) => s.houseId)!;
 	ids.site = site.id;
-	const post = async (path: string, body: unknown) => {
-		const res = await fetch(server.url + path, {
-			method: 'POST',
-			headers: {
-				authorization: `Bearer ${prep.ownerToken}`,
-				'content-type': 'application/json',
-				accept: 'application/json'
-			},
-			body: JSON.stringify(body)
-		});
-		if (res.status !== 201) throw new Error(`${path}: ${res.status} ${await res.text()}`);
-		return res.json();
-	};
+	type Created = { plan: { id: string }; estimate: { id: string } };
+	const post = (path: string, body: unknown) =>
+		createWithToken<Created>(server.url, prep.ownerToken, path, body);
 	const facets = planFacetsOf(site.houseId!);
 	ids.roofPlan = (
 		await post('/api/roof-plans', { siteId: site.id, facets, baseVersion: null })

@@ -4,7 +4,8 @@ import fc from 'fast-check';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { house, planFacetsOf } from '../../geodata/scene';
 import { closeDb, getDb } from '../../src/lib/server/db';
-import { companies, customers, roofPlans, sites } from '../../src/lib/server/db/schema';
+import { roofPlans } from '../../src/lib/server/db/schema';
+import { addOtherCompany } from '../helpers/other-company';
 import { sessionFor } from '../helpers/http';
 import { seededDataDir, startServer, type TestServer } from '../helpers/server';
 import { rectangleM } from '../unit/map/reference';
@@ -19,34 +20,13 @@ let saves = 0;
 /** Plans the demo seed wrote before these tests ran. */
 let seededPlanIds: string[] = [];
 
-/** An invented second tenant, written straight into the data dir before the server opens it. */
-async function addOtherCompany(dir: string): Promise<string> {
-	process.env.CLEARPITCH_DATA_DIR = dir;
-	process.env.DATABASE_URL = '';
-	const db = await getDb();
-	const [c] = await db.insert(companies).values({ name: 'Marrowgate Roof Care' }).returning();
-	const [cu] = await db
-		.insert(customers)
-		.values({ companyId: c.id, name: 'Tamsin Oakhurst' })
-		.returning();
-	const [s] = await db
-		.insert(sites)
-		.values({
-			companyId: c.id,
-			customerId: cu.id,
-			address: '4 Fenwick Row, Wrenfield',
-			lat: 35.52,
-			lon: -74.46
-		})
-		.returning();
-	seededPlanIds = (await db.select({ id: roofPlans.id }).from(roofPlans)).map((r) => r.id);
-	await closeDb();
-	return s.id;
-}
-
 beforeAll(async () => {
 	dataDir = seededDataDir('api-roof-plans');
-	otherCompanySiteId = await addOtherCompany(dataDir);
+	const other = await addOtherCompany(dataDir, async (db) =>
+		(await db.select({ id: roofPlans.id }).from(roofPlans)).map((r) => r.id)
+	);
+	otherCompanySiteId = other.siteId;
+	seededPlanIds = other.more;
 	server = await startServer(dataDir);
 	estimator = await sessionFor(server.url, 'estimator');
 	crew = await sessionFor(server.url, 'crew');

@@ -18,6 +18,7 @@ import { PGlite } from '@electric-sql/pglite';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { prepareDataDir, sceneRequest, type SeededSite } from './api-helpers';
 import { seededDataDir, startServer, type TestServer } from '../helpers/server';
+import { mulberry32 } from '../../geodata/prng.js';
 
 const ROUNDS = 50;
 const CLIENTS = 4;
@@ -25,18 +26,6 @@ const CLIENTS = 4;
 const KILL_AFTER_MS = { min: 5, max: 1200 };
 
 const SEED = Number(process.env.CLEARPITCH_CRASH_SEED ?? Math.floor(Math.random() * 2 ** 32));
-
-/** mulberry32, a small well-known 32-bit generator: the same seed gives the same kill schedule. */
-function generator(seed: number) {
-	let a = seed >>> 0;
-	return () => {
-		a = (a + 0x6d2b79f5) >>> 0;
-		let t = a;
-		t = Math.imul(t ^ (t >>> 15), t | 1);
-		t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-		return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-	};
-}
 
 type Acked = { status: 'draft' | 'ready'; patchSent: boolean; round: number };
 
@@ -145,7 +134,7 @@ describe('SIGKILL during a stream of API writes', () => {
 		`loses no acknowledged write in ${ROUNDS} kills, and restarts at once on the stale lock`,
 		async () => {
 			console.log(`crash-recovery seed ${SEED} (CLEARPITCH_CRASH_SEED=${SEED} replays it)`);
-			const rand = generator(SEED);
+			const rand = mulberry32(SEED);
 			const acked = new Map<string, Acked>();
 			const startMs: number[] = [];
 			const lost: string[] = [];

@@ -3,8 +3,7 @@
 // prices that plan version's stored facets; a refusal names roofPlanId and writes nothing.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { planFacetsOf } from '../../geodata/scene';
-import { closeDb, getDb } from '../../src/lib/server/db';
-import { companies, customers, roofPlans, sites } from '../../src/lib/server/db/schema';
+import { addEmptyPlan, addOtherCompany } from '../helpers/other-company';
 import { seededDataDir, startServer, type TestServer } from '../helpers/server';
 import { prepareDataDir, type Prepared } from './api-helpers';
 
@@ -18,45 +17,12 @@ let bareSiteId: string;
 /** A plan of an invented second tenant. */
 let otherCompanyPlanId: string;
 
-/** An invented second tenant with one site and one plan, written before the server opens it. */
-async function addOtherCompanyPlan(dir: string): Promise<string> {
-	process.env.CLEARPITCH_DATA_DIR = dir;
-	process.env.DATABASE_URL = '';
-	const db = await getDb();
-	const [c] = await db.insert(companies).values({ name: 'Marrowgate Roof Care' }).returning();
-	const [cu] = await db
-		.insert(customers)
-		.values({ companyId: c.id, name: 'Tamsin Oakhurst' })
-		.returning();
-	const [s] = await db
-		.insert(sites)
-		.values({
-			companyId: c.id,
-			customerId: cu.id,
-			address: '4 Fenwick Row, Wrenfield',
-			lat: 35.52,
-			lon: -74.46
-		})
-		.returning();
-	const [p] = await db
-		.insert(roofPlans)
-		.values({
-			companyId: c.id,
-			siteId: s.id,
-			version: 1,
-			facets: { type: 'FeatureCollection', features: [] }
-		})
-		.returning();
-	await closeDb();
-	return p.id;
-}
-
 const siteOf = (houseId: string) => prep.sites.find((s) => s.houseId === houseId)!.id;
 
 beforeAll(async () => {
 	dataDir = seededDataDir('estimate-roof-plan');
 	prep = await prepareDataDir(dataDir);
-	otherCompanyPlanId = await addOtherCompanyPlan(dataDir);
+	otherCompanyPlanId = (await addOtherCompany(dataDir, addEmptyPlan)).more;
 	server = await startServer(dataDir);
 	// Two measured sites, saved the way the editor saves them.
 	for (const houseId of ['h04', 'h05']) {

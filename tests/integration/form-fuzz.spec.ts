@@ -10,7 +10,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { planFacetsOf } from '../../geodata/scene';
 import { DEFAULT_RATE_CARD } from '../../src/lib/estimating/rate-card';
 import { cardToForm } from '../../src/routes/(app)/rates/card-form';
-import { signIn } from '../helpers/http';
+import { createWithToken, signIn } from '../helpers/http';
 import { listRoutes } from '../helpers/routes';
 import {
 	DEMO,
@@ -400,19 +400,9 @@ beforeAll(async () => {
 	target.watch = await session(target.email, 'fuzz-target-password');
 	// The test seed has no estimates: make one through the API for the status action.
 	const site = prep.sites.find((s) => s.houseId)!;
-	const call = async (path: string, body: unknown) => {
-		const res = await fetch(server.url + path, {
-			method: 'POST',
-			headers: {
-				authorization: `Bearer ${prep.ownerToken}`,
-				'content-type': 'application/json',
-				accept: 'application/json'
-			},
-			body: JSON.stringify(body)
-		});
-		if (res.status !== 201) throw new Error(`${path}: ${res.status} ${await res.text()}`);
-		return res.json();
-	};
+	type Created = { plan: { id: string }; estimate: { id: string } };
+	const call = (path: string, body: unknown) =>
+		createWithToken<Created>(server.url, prep.ownerToken, path, body);
 	await call('/api/roof-plans', {
 		siteId: site.id,
 		facets: planFacetsOf(site.houseId!),

@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { ACCESS_GRADES, GROWTH_GRADES, MATERIALS, type EstimateResult } from '../estimating/types';
 import { rateCardSchema } from './rate-card';
 import { ESTIMATE_STATUSES } from '../estimate-status';
+import { pageNumber, searchText, wholeNumber } from './list-query';
 
 /**
  * Query, PATCH and response schemas of the estimates API. The request body schema lives in
@@ -16,36 +17,17 @@ const statusEnum = z.enum(ESTIMATE_STATUSES, {
 			: `status must be one of: ${ESTIMATE_STATUSES.join(', ')} (got ${JSON.stringify(iss.input)})`
 });
 
-const wholeNumber = (field: string, min: number, max: number, fallback: number) =>
-	z.coerce
-		.number({ error: `${field} must be a whole number` })
-		.int({ error: `${field} must be a whole number` })
-		.min(min, { error: `${field} must be at least ${min}` })
-		.max(max, { error: `${field} must be at most ${max}` })
-		.default(fallback);
-
 export const MAX_PAGE_SIZE = 100;
 
 export const estimateListQuerySchema = z.object({
 	status: statusEnum.optional().describe('Only estimates with this status.'),
 	site: z.uuid({ error: 'site must be a site id (UUID)' }).optional().describe('Only this site.'),
-	text: z
-		.string()
-		.max(200, { error: 'text must be at most 200 characters' })
-		.optional()
-		.describe('Part of the address or the customer name, any case.'),
-	page: wholeNumber('page', 1, 100_000, 1).describe('1-based page number.'),
+	text: searchText('text'),
+	page: pageNumber(),
 	pageSize: wholeNumber('pageSize', 1, MAX_PAGE_SIZE, 20).describe(
 		`Items per page, at most ${MAX_PAGE_SIZE}.`
 	)
 });
-
-/** Query parameters as zod sees them: empty ones count as absent. */
-export function queryObject(params: URLSearchParams): Record<string, string> {
-	const out: Record<string, string> = {};
-	for (const [k, v] of params) if (v !== '') out[k] = v;
-	return out;
-}
 
 export const estimatePatchSchema = z.strictObject(
 	{ status: statusEnum },

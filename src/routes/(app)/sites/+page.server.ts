@@ -1,5 +1,5 @@
 import { requireRole } from '$lib/server/auth/guard';
-import { queryObject } from '$lib/schemas/estimates-api';
+import { queryObject } from '$lib/schemas/list-query';
 import { latestPlanSummaries } from '$lib/server/services/roof-plans';
 import { companyImagery, listSitesPage } from '$lib/server/services/sites';
 import { SITE_PAGE_SIZE, siteListQuerySchema } from '$lib/schemas/site-list';

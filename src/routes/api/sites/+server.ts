@@ -1,6 +1,6 @@
 import { json } from '@sveltejs/kit';
 import { answer, zodInvalid } from '$lib/server/api/errors';
-import { queryObject } from '$lib/schemas/estimates-api';
+import { queryObject } from '$lib/schemas/list-query';
 import { requireRole } from '$lib/server/auth/guard';
 import { listSitesPage } from '$lib/server/services/sites';
 import { siteListQuerySchema } from '$lib/schemas/site-list';
