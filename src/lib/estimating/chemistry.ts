@@ -100,3 +100,39 @@ export function waterForSite(
 		rinseGal: eaveLengthFt * chem.rinseGalPerEaveFt
 	};
 }
+
+/**
+ * The crew's batches for the stock they measured on the day. Each batch keeps its strength, its
+ * volume of finished mix and its surfactant dose; only the split between stock and water moves
+ * (C1·V1 = C2·V2 again, from the measured C1). A batch the measured stock can no longer make is
+ * returned as a problem, never as a recipe.
+ */
+export function rebatchForStock(
+	batches: readonly Batch[],
+	measuredStockPct: number
+): { batches: Batch[]; problems: BatchProblem[] } {
+	const out: Batch[] = [];
+	const problems: BatchProblem[] = [];
+	for (const b of batches) {
+		if (b.strengthPct >= measuredStockPct) {
+			problems.push({
+				strengthPct: b.strengthPct,
+				facetIds: b.facetIds,
+				message: `a ${b.strengthPct}% mix cannot be made from stock measured at ${measuredStockPct}%: the stock must be stronger than the mix`
+			});
+			continue;
+		}
+		const stockGal = stockVolume(b.strengthPct, b.mixGal, measuredStockPct);
+		const waterGal = b.mixGal - stockGal - flOzToGal(b.surfactantOz);
+		if (waterGal < 0) {
+			problems.push({
+				strengthPct: b.strengthPct,
+				facetIds: b.facetIds,
+				message: `a ${b.strengthPct}% mix from stock measured at ${measuredStockPct}% leaves no room for the surfactant dose; use stronger stock`
+			});
+			continue;
+		}
+		out.push({ ...b, stockGal, waterGal, facetIds: [...b.facetIds] });
+	}
+	return { batches: out, problems };
+}
