@@ -4,3 +4,4 @@ export * from './sites';
 export * from './estimating';
 export * from './mail';
 export * from './payments';
+export * from './invoices';
