@@ -7,7 +7,6 @@ import {
 	pgEnum,
 	pgTable,
 	primaryKey,
-	text,
 	timestamp,
 	unique,
 	uuid
