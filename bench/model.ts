@@ -72,7 +72,7 @@ export function benchRoof(facetCount = 30, lat0 = 44.9, lon0 = -93.1): EstimateI
 		facets.push({
 			id: `f${i + 1}`,
 			label: `Facet ${i + 1}`,
-			polygon,
+			geometry: polygon,
 			pitch: 3 + (i % 8) * 1.5,
 			material: materials[i % materials.length],
 			growth: growth[i % growth.length],

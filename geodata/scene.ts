@@ -218,12 +218,12 @@ export function planFacetsOf(houseId: string) {
 	}));
 }
 
-/** The same facets as the estimating model and /api/estimates take them: the outline is `polygon`. */
+/** The same facets as the estimating model and /api/estimates take them (stories checked to be 1–3). */
 export function estimateFacetsOf(houseId: string) {
 	return planFacetsOf(houseId).map(({ geometry, stories, ...f }) => {
 		if (stories !== 1 && stories !== 2 && stories !== 3) {
 			throw new Error(`scene facet ${f.id} has ${stories} stories; the model takes 1 to 3`);
 		}
-		return { ...f, polygon: geometry, stories: stories as 1 | 2 | 3 };
+		return { ...f, geometry, stories: stories as 1 | 2 | 3 };
 	});
 }

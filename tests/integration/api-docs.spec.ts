@@ -40,7 +40,8 @@ describe('/api/openapi.json', () => {
 		expect(Object.keys(doc.paths).sort()).toEqual([
 			'/api/estimates',
 			'/api/estimates/{id}',
-			'/api/rate-cards'
+			'/api/rate-cards',
+			'/api/roof-plans'
 		]);
 		expect(Object.keys(doc.paths['/api/estimates']).sort()).toEqual(['get', 'post']);
 		expect(Object.keys(doc.paths['/api/estimates/{id}']).sort()).toEqual([
@@ -66,6 +67,18 @@ describe('/api/openapi.json', () => {
 			'wood_shake'
 		]);
 		expect(facet.additionalProperties).toBe(false);
+		// One facet shape: a roof plan's facets and an estimate's are the same schema, outline
+		// called geometry, with the same limits.
+		const planFacets = doc.components.schemas.RoofPlanSave.properties.facets;
+		expect(planFacets.items).toEqual(facet);
+		expect(doc.components.schemas.Facet).toEqual(facet);
+		expect(facet.required).toEqual(expect.arrayContaining(['id', 'geometry', 'pitch']));
+		expect(facet.properties).not.toHaveProperty('polygon');
+		expect(facet.properties.label.maxLength).toBe(60);
+		expect(facet.properties.id.maxLength).toBe(64);
+		expect(req.properties.facets.maxItems).toBe(100);
+		expect(planFacets.maxItems).toBe(100);
+		expect(facet.properties.geometry.properties.coordinates.items.maxItems).toBe(201);
 		const pageSize = doc.paths['/api/estimates'].get.parameters.find(
 			(p: { name: string }) => p.name === 'pageSize'
 		);

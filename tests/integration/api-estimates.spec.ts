@@ -136,7 +136,7 @@ function geographicLibAreaFt2(p: Polygon): number {
 
 const jlcFacet = (over: Record<string, unknown> = {}) => ({
 	id: 'gable',
-	polygon: rectangle40x30(),
+	geometry: rectangle40x30(),
 	pitch: 6,
 	material: 'asphalt_shingle',
 	growth: 'G1',
@@ -148,7 +148,9 @@ const jlcFacet = (over: Record<string, unknown> = {}) => ({
 describe('POST /api/estimates prices a roof plan', () => {
 	it('matches the JLC worked check for a 40 × 30 ft gable at 6/12, and GeographicLib', async () => {
 		const polygon = rectangle40x30();
-		const r = await call('POST', '/api/estimates', owner(), { facets: [jlcFacet({ polygon })] });
+		const r = await call('POST', '/api/estimates', owner(), {
+			facets: [jlcFacet({ geometry: polygon })]
+		});
 		expect(r.status).toBe(200);
 		const body = estimatePricedSchema.parse(r.json);
 		const f = body.facets[0];
@@ -326,11 +328,11 @@ describe('bad input is a 400 naming each bad field, and writes nothing', () => {
 			body: () => {
 				const [a, b, c, d] = rectangle40x30().coordinates[0];
 				return {
-					facets: [jlcFacet({ polygon: { type: 'Polygon', coordinates: [[a, c, b, d, a]] } })],
+					facets: [jlcFacet({ geometry: { type: 'Polygon', coordinates: [[a, c, b, d, a]] } })],
 					...saveTo()
 				};
 			},
-			paths: ['facets.0.polygon']
+			paths: ['facets.0.geometry']
 		},
 		{
 			name: 'roof access on fragile clay tile',

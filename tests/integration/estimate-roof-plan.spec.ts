@@ -165,14 +165,13 @@ describe('an estimate saved from a roofPlanId', () => {
 	});
 });
 
-/** A roof-plan facet as /api/estimates takes it. */
+/**
+ * A roof-plan facet as the API returns it, as /api/estimates takes it: the same shape (one facet
+ * schema), so only the plan view's own extras are dropped.
+ */
 function toEstimateFacet(f: FacetReply): FacetReply {
-	const { geometry, outline, label, ...rest } = f;
-	return {
-		...rest,
-		...(label ? { label } : {}),
-		...(geometry !== undefined ? { polygon: geometry } : { outline })
-	};
+	const { id, label, geometry, pitch, material, growth, access, stories, edges } = f;
+	return { id, label, geometry, pitch, material, growth, access, stories, edges };
 }
 
 // PGlite allows one process per data dir, so the live count comes from the server's own list.

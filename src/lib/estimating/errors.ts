@@ -1,6 +1,6 @@
 /** One problem with the input, shaped like a zod issue so the API can merge both kinds. */
 export interface EstimateIssue {
-	/** e.g. ['facets', 2, 'polygon'] */
+	/** e.g. ['facets', 2, 'geometry'] */
 	path: Array<string | number>;
 	code: string;
 	message: string;

@@ -39,7 +39,7 @@ export function ellipsoidAreaCorrection(latDeg: number): number {
 }
 
 export interface GeometryIssue {
-	/** Path below the facet, e.g. ['polygon', 'coordinates', 0, 3]. */
+	/** Path below the facet, e.g. ['geometry', 'coordinates', 0, 3]. */
 	path: Array<string | number>;
 	code: string;
 	message: string;
@@ -69,24 +69,24 @@ const isFiniteNumber = (v: unknown): v is number => typeof v === 'number' && Num
  */
 export function measureFacetPlan(polygon: Polygon): PlanResult {
 	if (!polygon || polygon.type !== 'Polygon' || !Array.isArray(polygon.coordinates)) {
-		return fail(['polygon'], 'not_polygon', 'polygon must be a GeoJSON Polygon');
+		return fail(['geometry'], 'not_polygon', 'geometry must be a GeoJSON Polygon');
 	}
 	const rings = polygon.coordinates;
 	if (rings.length !== 1) {
 		return fail(
-			['polygon', 'coordinates'],
+			['geometry', 'coordinates'],
 			rings.length === 0 ? 'no_ring' : 'holes_unsupported',
 			rings.length === 0
-				? 'polygon has no ring'
-				: 'polygon must have exactly one ring (holes are not supported: outline the whole facet)'
+				? 'the outline has no ring'
+				: 'geometry must have exactly one ring (holes are not supported: outline the facet)'
 		);
 	}
 	const ring = rings[0];
 	if (!Array.isArray(ring) || ring.length < 4) {
 		return fail(
-			['polygon', 'coordinates', 0],
+			['geometry', 'coordinates', 0],
 			'too_few_positions',
-			'polygon ring needs at least 4 positions (3 corners and the closing position)'
+			'the outline needs at least 3 corners (4 positions, the last repeating the first)'
 		);
 	}
 	const n = ring.length;
@@ -98,7 +98,7 @@ export function measureFacetPlan(polygon: Polygon): PlanResult {
 		const p = ring[i];
 		if (!Array.isArray(p) || p.length < 2 || !isFiniteNumber(p[0]) || !isFiniteNumber(p[1])) {
 			return fail(
-				['polygon', 'coordinates', 0, i],
+				['geometry', 'coordinates', 0, i],
 				'bad_position',
 				`position ${i} must be [lon, lat] with finite numbers`
 			);
@@ -107,7 +107,7 @@ export function measureFacetPlan(polygon: Polygon): PlanResult {
 		const y = p[1];
 		if (x < -180 || x > 180 || y < -90 || y > 90) {
 			return fail(
-				['polygon', 'coordinates', 0, i],
+				['geometry', 'coordinates', 0, i],
 				'out_of_range',
 				`position ${i} is out of range (lon −180..180, lat −90..90; GeoJSON order is [lon, lat])`
 			);
@@ -119,9 +119,9 @@ export function measureFacetPlan(polygon: Polygon): PlanResult {
 	}
 	if (ring[0][0] !== ring[n - 1][0] || ring[0][1] !== ring[n - 1][1]) {
 		return fail(
-			['polygon', 'coordinates', 0],
+			['geometry', 'coordinates', 0],
 			'ring_not_closed',
-			'polygon ring is not closed: the last position must repeat the first'
+			'the outline is not closed: the last position must repeat the first'
 		);
 	}
 	// Any interior latitude serves for the radii: they change by parts per billion across a roof.
@@ -153,9 +153,9 @@ export function measureFacetPlan(polygon: Polygon): PlanResult {
 	const convex = isStrictlyConvex(work);
 	if (!convex && !distinctAtLeast3(ring)) {
 		return fail(
-			['polygon', 'coordinates', 0],
+			['geometry', 'coordinates', 0],
 			'too_few_vertices',
-			'polygon needs at least 3 distinct corners'
+			'the outline needs at least 3 distinct corners'
 		);
 	}
 
@@ -185,7 +185,7 @@ export function measureFacetPlan(polygon: Polygon): PlanResult {
 		const len = Math.sqrt(dx * dx + dy * dy);
 		if (len > MAX_EDGE_M) {
 			return fail(
-				['polygon', 'coordinates', 0, i + 1],
+				['geometry', 'coordinates', 0, i + 1],
 				'too_large',
 				`edge ${i} is ${Math.round(len)} m long, too long for a roof facet (check the [lon, lat] order)`
 			);
@@ -197,9 +197,9 @@ export function measureFacetPlan(polygon: Polygon): PlanResult {
 	const back = convex ? -1 : findDoubleBack(work, centroidLatDeg);
 	if (back >= 0) {
 		return fail(
-			['polygon', 'coordinates', 0],
+			['geometry', 'coordinates', 0],
 			'self_overlap',
-			`polygon outline doubles back on itself at corner [${fmtPos(work[back])}]`
+			`the outline doubles back on itself at corner [${fmtPos(work[back])}]`
 		);
 	}
 	const geometry: Polygon = work === ring ? polygon : { type: 'Polygon', coordinates: [work] };
@@ -207,9 +207,9 @@ export function measureFacetPlan(polygon: Polygon): PlanResult {
 	if (crossings && crossings.features.length > 0) {
 		const at = crossings.features[0].geometry.coordinates;
 		return fail(
-			['polygon'],
+			['geometry'],
 			'self_intersection',
-			`polygon outline crosses itself near [${fmtPos(at)}]; redraw the facet without crossing edges`
+			`the outline crosses itself near [${fmtPos(at)}]; redraw the facet without crossing edges`
 		);
 	}
 
@@ -218,9 +218,9 @@ export function measureFacetPlan(polygon: Polygon): PlanResult {
 	const planAreaFt2 = m2ToFt2(planAreaM2);
 	if (!(planAreaFt2 >= MIN_FACET_AREA_FT2)) {
 		return fail(
-			['polygon'],
+			['geometry'],
 			'zero_area',
-			`polygon has zero or negligible area (${planAreaFt2.toFixed(3)} ft², under ${MIN_FACET_AREA_FT2} ft²)`
+			`the outline has zero or negligible area (${planAreaFt2.toFixed(3)} ft², under ${MIN_FACET_AREA_FT2} ft²)`
 		);
 	}
 	return {

@@ -380,7 +380,7 @@ function checkFacet(
 		const refusal = accessRefusal(f.material, f.access);
 		if (refusal) issue(facetPath(i, 'access'), 'access_refused', refusal);
 	}
-	const r = measureFacetPlan(f.polygon);
+	const r = measureFacetPlan(f.geometry);
 	if (!r.ok) {
 		for (const g of r.issues) issue(facetPath(i, ...g.path), g.code, g.message);
 		return null;
@@ -391,7 +391,7 @@ function checkFacet(
 			issue(
 				facetPath(i, 'edges'),
 				'edges_length',
-				`edges must give one label (or null) per ring segment: ${segments} expected`
+				`edges must give one label (or null) per outline segment: ${segments} expected`
 			);
 			return null;
 		}

@@ -52,7 +52,7 @@ export interface FacetInput {
 	id: string;
 	label?: string;
 	/** WGS84 GeoJSON Polygon, positions [lon, lat]; one outer ring, no holes. */
-	polygon: Polygon;
+	geometry: Polygon;
 	/** Rise in inches per 12 in of run, 0..24. */
 	pitch: number;
 	material: Material;

@@ -1,21 +1,10 @@
+import { facetBody } from '../schemas/facet';
 import type { PlanFacet } from '../schemas/roof-plan';
 import type { FacetMeasure } from './plan-measure';
 
 /** The editor's facets as the estimate API takes them: only those whose outline measures. */
 export function estimateFacets(facets: readonly PlanFacet[], measures: readonly FacetMeasure[]) {
-	return facets
-		.filter((_, i) => measures[i]?.ok)
-		.map((f) => ({
-			id: f.id,
-			...(f.label ? { label: f.label } : {}),
-			polygon: f.geometry,
-			pitch: f.pitch,
-			material: f.material,
-			growth: f.growth,
-			access: f.access,
-			stories: f.stories,
-			edges: f.edges
-		}));
+	return facets.filter((_, i) => measures[i]?.ok).map(facetBody);
 }
 
 export type EstimateFacet = ReturnType<typeof estimateFacets>[number];

@@ -1,4 +1,5 @@
-import { planFacetSchema, type PlanFacet } from '../schemas/roof-plan';
+import { facetSchema } from '../schemas/facet';
+import type { PlanFacet } from '../schemas/roof-plan';
 import type { UnitSystem } from './format';
 
 /**
@@ -57,7 +58,7 @@ export function readDraft(siteId: string, latest: number | null): LocalDraft | n
 /** Only the facets that still pass the plan's schema come back from a draft. */
 export function checkedDraftFacets(d: LocalDraft): PlanFacet[] {
 	return d.facets.flatMap((f) => {
-		const r = planFacetSchema.safeParse(f);
+		const r = facetSchema.safeParse(f);
 		return r.success ? [r.data] : [];
 	});
 }

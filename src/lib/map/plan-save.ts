@@ -1,3 +1,4 @@
+import { facetBody } from '../schemas/facet';
 import {
 	planIssues,
 	savePlanSchema,
@@ -17,17 +18,7 @@ export function planPayload(p: {
 }) {
 	return {
 		siteId: p.siteId,
-		facets: p.facets.map((f) => ({
-			id: f.id,
-			label: f.label,
-			geometry: f.geometry,
-			pitch: f.pitch,
-			material: f.material,
-			growth: f.growth,
-			access: f.access,
-			stories: f.stories,
-			edges: f.edges
-		})),
+		facets: p.facets.map(facetBody),
 		source: p.source,
 		note: p.note.trim(),
 		baseVersion: p.baseVersion,

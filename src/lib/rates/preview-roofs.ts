@@ -21,7 +21,7 @@ const M_PER_FT = 0.3048;
 const ORIGIN = { lat: 35.52, lon: -74.46 };
 
 /** A w × h ft plan rectangle whose south-west corner is x, y ft east and north of ORIGIN. */
-function rect(x: number, y: number, w: number, h: number): FacetInput['polygon'] {
+function rect(x: number, y: number, w: number, h: number): FacetInput['geometry'] {
 	const { lat, lon } = ORIGIN;
 	const dLon = (ft: number) => (ft * M_PER_FT) / (primeVerticalRadius(lat) * Math.cos(lat * DEG));
 	const dLat = (ft: number) => (ft * M_PER_FT) / meridionalRadius(lat);
@@ -38,8 +38,8 @@ type Slopes = Pick<FacetInput, 'pitch' | 'material' | 'growth' | 'access' | 'sto
 /** A gable: two rectangular slopes of `run` ft each side of an east–west ridge `length` ft long. */
 function gable(length: number, run: number, s: Slopes): FacetInput[] {
 	return [
-		{ id: 'south', label: 'South slope', polygon: rect(0, 0, length, run), ...s },
-		{ id: 'north', label: 'North slope', polygon: rect(0, run, length, run), ...s }
+		{ id: 'south', label: 'South slope', geometry: rect(0, 0, length, run), ...s },
+		{ id: 'north', label: 'North slope', geometry: rect(0, run, length, run), ...s }
 	].map((f) => ({
 		...f,
 		// Ring segments run south, east, north, west; the ridge is where the slopes meet.

@@ -1,5 +1,7 @@
 import { z } from 'zod';
 import { estimateRequestSchema } from '../schemas/estimate';
+import { facetSchema } from '../schemas/facet';
+import { savePlanSchema } from '../schemas/roof-plan';
 import { rateCardSchema } from '../schemas/rate-card';
 import { MAX_JSON_BYTES } from './api/body';
 import { EXAMPLE_ERROR, EXAMPLE_REQUEST, exampleResponse } from './api/examples';
@@ -65,7 +67,12 @@ function build() {
 		security: [{ bearerToken: [] }, { session: [] }],
 		tags: [
 			{ name: 'Estimates', description: 'Price a roof plan; list, read and move estimates.' },
-			{ name: 'Rate cards', description: "The owner's rate-card versions." }
+			{ name: 'Rate cards', description: "The owner's rate-card versions." },
+			{
+				name: 'Roof plans',
+				description:
+					'Save a site’s roof plan as its next version. Its facets have the same shape as an estimate’s (Facet).'
+			}
 		],
 		paths: {
 			'/api/estimates': {
@@ -179,6 +186,28 @@ function build() {
 					}
 				}
 			},
+			'/api/roof-plans': {
+				post: {
+					tags: ['Roof plans'],
+					operationId: 'saveRoofPlan',
+					summary: 'Save a roof plan as the site’s next version',
+					description:
+						'A refused body writes nothing. Messages about one facet start with its number and label: "Facet 3 (Garage south slope): the outline crosses itself".',
+					requestBody: {
+						required: true,
+						content: { 'application/json': { schema: ref('RoofPlanSave') } }
+					},
+					responses: {
+						'201': {
+							description: 'Saved: `{ plan }` with its id and version; `Location` names it.'
+						},
+						'400': errorResponse('The plan has problems; `issues` names each one.'),
+						...COMMON_ERRORS,
+						'404': errorResponse('No such site.'),
+						'409': errorResponse('A newer version was saved since `baseVersion`.')
+					}
+				}
+			},
 			'/api/rate-cards': {
 				get: {
 					tags: ['Rate cards'],
@@ -210,6 +239,8 @@ function build() {
 				}
 			},
 			schemas: {
+				Facet: schemaOf(facetSchema, 'input'),
+				RoofPlanSave: schemaOf(savePlanSchema, 'input'),
 				EstimateRequest: schemaOf(estimateRequestSchema, 'input'),
 				EstimatePriced: schemaOf(estimatePricedSchema, 'output'),
 				EstimateList: schemaOf(estimateListSchema, 'output'),

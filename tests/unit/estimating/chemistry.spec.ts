@@ -188,8 +188,8 @@ describe('batches, waste and surfactant', () => {
 		const r = estimate(
 			{
 				facets: [
-					facet({ id: 'a', polygon: plane.rectFt(40, 30), pitch: 0, growth: 'G3' }),
-					facet({ id: 'b', polygon: plane.rectFt(20, 10, 60, 0), pitch: 0, material: 'metal' })
+					facet({ id: 'a', geometry: plane.rectFt(40, 30), pitch: 0, growth: 'G3' }),
+					facet({ id: 'b', geometry: plane.rectFt(20, 10, 60, 0), pitch: 0, material: 'metal' })
 				]
 			},
 			DEFAULT_RATE_CARD

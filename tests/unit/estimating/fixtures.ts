@@ -56,7 +56,7 @@ export function geographicLibAreaM2(polygon: Polygon): number {
 /** Invented demo location: the sample scene's open-sea coordinates, where no real town stands. */
 export const WRENFIELD = { lat: 35.52, lon: -74.46 };
 
-export function facet(overrides: Partial<FacetInput> & { polygon: Polygon }): FacetInput {
+export function facet(overrides: Partial<FacetInput> & { geometry: Polygon }): FacetInput {
 	return {
 		id: 'f1',
 		pitch: 6,
@@ -74,12 +74,12 @@ export function gableRoof(lat = WRENFIELD.lat, lon = WRENFIELD.lon): FacetInput[
 	return [
 		facet({
 			id: 'south',
-			polygon: plane.rectFt(40, 15, 0, -7.5),
+			geometry: plane.rectFt(40, 15, 0, -7.5),
 			edges: ['eave', 'rake', 'ridge', 'rake']
 		}),
 		facet({
 			id: 'north',
-			polygon: plane.rectFt(40, 15, 0, 7.5),
+			geometry: plane.rectFt(40, 15, 0, 7.5),
 			edges: ['ridge', 'rake', 'eave', 'rake']
 		})
 	];

@@ -146,7 +146,7 @@ describe('degenerate and invalid outlines are refused with a reason', () => {
 		expect(r.ok).toBe(false);
 		if (r.ok) return;
 		expect(r.issues[0].code).toBe('self_intersection');
-		expect(r.issues[0].path).toEqual(['polygon']);
+		expect(r.issues[0].path).toEqual(['geometry']);
 		expect(r.issues[0].message).toMatch(/crosses itself/);
 	});
 

@@ -50,9 +50,9 @@ describe('growth grade → mix strength', () => {
 		const r = estimate(
 			{
 				facets: [
-					facet({ id: 'a', polygon: plane.rectFt(20, 20), growth: 'G1' }),
-					facet({ id: 'b', polygon: plane.rectFt(20, 20, 40), growth: 'G3' }),
-					facet({ id: 'c', polygon: plane.rectFt(20, 20, 80), growth: 'G4' })
+					facet({ id: 'a', geometry: plane.rectFt(20, 20), growth: 'G1' }),
+					facet({ id: 'b', geometry: plane.rectFt(20, 20, 40), growth: 'G3' }),
+					facet({ id: 'c', geometry: plane.rectFt(20, 20, 80), growth: 'G4' })
 				]
 			},
 			card
@@ -163,8 +163,8 @@ describe('test spot', () => {
 
 	it('a slow spot adds the staining expectation; facetIds limit which facets it speaks for', () => {
 		const facets = [
-			facet({ id: 'a', polygon: plane.rectFt(20, 20), growth: 'G2' }),
-			facet({ id: 'b', polygon: plane.rectFt(20, 20, 40), growth: 'G2' })
+			facet({ id: 'a', geometry: plane.rectFt(20, 20), growth: 'G2' }),
+			facet({ id: 'b', geometry: plane.rectFt(20, 20, 40), growth: 'G2' })
 		];
 		const r = estimate(
 			{
@@ -193,8 +193,8 @@ describe('access grade', () => {
 		}
 		const issues = issuesOf({
 			facets: [
-				facet({ id: 'a', polygon: plane.rectFt(20, 20) }),
-				facet({ id: 'b', polygon: plane.rectFt(20, 20, 40), material: 'slate', access: 'roof' })
+				facet({ id: 'a', geometry: plane.rectFt(20, 20) }),
+				facet({ id: 'b', geometry: plane.rectFt(20, 20, 40), material: 'slate', access: 'roof' })
 			]
 		});
 		expect(issues).toHaveLength(1);
@@ -255,9 +255,9 @@ describe('materials', () => {
 		const r = estimate(
 			{
 				facets: [
-					facet({ id: 'a', polygon: plane.rectFt(20, 20), material: 'clay_tile' }),
-					facet({ id: 'b', polygon: plane.rectFt(20, 20, 40), material: 'concrete_tile' }),
-					facet({ id: 'c', polygon: plane.rectFt(20, 20, 80), material: 'metal' })
+					facet({ id: 'a', geometry: plane.rectFt(20, 20), material: 'clay_tile' }),
+					facet({ id: 'b', geometry: plane.rectFt(20, 20, 40), material: 'concrete_tile' }),
+					facet({ id: 'c', geometry: plane.rectFt(20, 20, 80), material: 'metal' })
 				]
 			},
 			card

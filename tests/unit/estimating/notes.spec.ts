@@ -40,12 +40,12 @@ describe('facet names in notes', () => {
 		const r = estimate(
 			{
 				facets: [
-					facet({ id: 'f-0001', polygon: plane.rectFt(20, 20), material: 'metal' }),
-					facet({ id: 'f-0002', polygon: plane.rectFt(20, 20, 40), growth: 'G3' }),
+					facet({ id: 'f-0001', geometry: plane.rectFt(20, 20), material: 'metal' }),
+					facet({ id: 'f-0002', geometry: plane.rectFt(20, 20, 40), growth: 'G3' }),
 					facet({
 						id: 'f-0003',
 						label: 'Garage',
-						polygon: plane.rectFt(20, 20, 80),
+						geometry: plane.rectFt(20, 20, 80),
 						material: 'metal',
 						growth: 'G4'
 					})
@@ -70,8 +70,8 @@ describe('facet names in notes', () => {
 		const r = tryEstimate(
 			{
 				facets: [
-					facet({ id: 'f-0001', polygon: plane.rectFt(20, 20), growth: 'G4' }),
-					facet({ id: 'f-0002', label: 'Porch', polygon: plane.rectFt(20, 20, 40), growth: 'G4' })
+					facet({ id: 'f-0001', geometry: plane.rectFt(20, 20), growth: 'G4' }),
+					facet({ id: 'f-0002', label: 'Porch', geometry: plane.rectFt(20, 20, 40), growth: 'G4' })
 				],
 				stockStrengthPct: 0.5
 			},

@@ -103,7 +103,7 @@ describe('worked check: 40 × 30 ft plan at 6/12', () => {
 	});
 
 	it('the model gives 1341.6 ft² sloped and 13.42 squares', () => {
-		const res = estimate({ facets: [facet({ polygon, pitch: 6 })] }, DEFAULT_RATE_CARD);
+		const res = estimate({ facets: [facet({ geometry: polygon, pitch: 6 })] }, DEFAULT_RATE_CARD);
 		const f = res.facets[0];
 		expect(f.pitchMultiplier).toBeCloseTo(1.11803, 5);
 		expect(Math.abs(f.slopedAreaFt2 - 1341.6)).toBeLessThan(0.05);
@@ -114,7 +114,7 @@ describe('worked check: 40 × 30 ft plan at 6/12', () => {
 				facets: [
 					facet({
 						id: 'n',
-						polygon: plane.polygonFt([
+						geometry: plane.polygonFt([
 							[-20, 15],
 							[-5, 0],
 							[5, 0],
@@ -123,7 +123,7 @@ describe('worked check: 40 × 30 ft plan at 6/12', () => {
 					}),
 					facet({
 						id: 's',
-						polygon: plane.polygonFt([
+						geometry: plane.polygonFt([
 							[-20, -15],
 							[20, -15],
 							[5, 0],
@@ -132,7 +132,7 @@ describe('worked check: 40 × 30 ft plan at 6/12', () => {
 					}),
 					facet({
 						id: 'e',
-						polygon: plane.polygonFt([
+						geometry: plane.polygonFt([
 							[20, -15],
 							[20, 15],
 							[5, 0]
@@ -140,7 +140,7 @@ describe('worked check: 40 × 30 ft plan at 6/12', () => {
 					}),
 					facet({
 						id: 'w',
-						polygon: plane.polygonFt([
+						geometry: plane.polygonFt([
 							[-20, -15],
 							[-5, 0],
 							[-20, 15]

@@ -20,7 +20,7 @@ const worked = (): EstimateInput => ({
 	facets: [
 		facet({
 			id: 'main',
-			polygon: plane.rectFt(40, 30),
+			geometry: plane.rectFt(40, 30),
 			pitch: 6,
 			edges: ['eave', 'rake', 'eave', 'rake']
 		})
@@ -92,7 +92,7 @@ describe('worked estimate, by hand from the default card', () => {
 
 describe('minimum job, discount, tax, extras, steep pitch', () => {
 	const small = (): EstimateInput => ({
-		facets: [facet({ polygon: plane.rectFt(12, 10), pitch: 4 })]
+		facets: [facet({ geometry: plane.rectFt(12, 10), pitch: 4 })]
 	});
 
 	it('a small job is raised to the minimum job charge with its own line', () => {
@@ -151,7 +151,7 @@ describe('minimum job, discount, tax, extras, steep pitch', () => {
 
 	it('steep pitch over 8/12 multiplies the facet price by 1.2 and adds set-up time', () => {
 		const at = (pitch: number) =>
-			estimate({ facets: [facet({ polygon: plane.rectFt(40, 30), pitch })] }, DEFAULT_RATE_CARD);
+			estimate({ facets: [facet({ geometry: plane.rectFt(40, 30), pitch })] }, DEFAULT_RATE_CARD);
 		const eight = at(8);
 		const nine = at(9);
 		expect(eight.facets[0].steep).toBe(false);
@@ -169,7 +169,7 @@ describe('minimum job, discount, tax, extras, steep pitch', () => {
 		const mult = { G0: 0.8, G1: 1.0, G2: 1.15, G3: 1.35, G4: 1.6 } as const;
 		for (const [g, m] of Object.entries(mult)) {
 			const r = estimate(
-				{ facets: [facet({ polygon: plane.rectFt(40, 30), growth: g as keyof typeof mult })] },
+				{ facets: [facet({ geometry: plane.rectFt(40, 30), growth: g as keyof typeof mult })] },
 				DEFAULT_RATE_CARD
 			);
 			expect(r.facets[0].priceCents).toBe(Math.round(r.facets[0].squares * 3200 * m));

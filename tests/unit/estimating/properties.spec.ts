@@ -51,7 +51,7 @@ const facetArb = (id: string) =>
 			const plane = localPlane(where.lat, where.lon);
 			return {
 				id,
-				polygon: plane.polygonM(ring.map(([x, y]) => [x + dx, y] as const)),
+				geometry: plane.polygonM(ring.map(([x, y]) => [x + dx, y] as const)),
 				pitch,
 				material,
 				growth,
@@ -150,7 +150,7 @@ describe('properties (fast-check)', () => {
 		fc.assert(
 			fc.property(roofArb, fc.nat(), (facets, pick) => {
 				const k = pick % facets.length;
-				const ring = facets[k].polygon.coordinates[0];
+				const ring = facets[k].geometry.coordinates[0];
 				// a convex polygon with two corners swapped crosses itself
 				const bent = ring.slice(0, -1);
 				const m = bent.length;
@@ -160,7 +160,7 @@ describe('properties (fast-check)', () => {
 				if (m === 3) return; // a triangle stays simple under any swap
 				bent.push(bent[0]);
 				const bad = facets.map((f, idx) =>
-					idx === k ? { ...f, polygon: { type: 'Polygon' as const, coordinates: [bent] } } : f
+					idx === k ? { ...f, geometry: { type: 'Polygon' as const, coordinates: [bent] } } : f
 				);
 				let err: unknown;
 				try {
@@ -170,7 +170,7 @@ describe('properties (fast-check)', () => {
 				}
 				expect(err).toBeInstanceOf(EstimateInputError);
 				const issue = (err as EstimateInputError).issues.find((x) => x.path[1] === k);
-				expect(issue?.path.slice(0, 3)).toEqual(['facets', k, 'polygon']);
+				expect(issue?.path.slice(0, 3)).toEqual(['facets', k, 'geometry']);
 				expect(['self_intersection', 'self_overlap']).toContain(issue?.code);
 			}),
 			{ numRuns: 200 }

@@ -65,11 +65,13 @@ describe('estimateRequestSchema', () => {
 		f.stories = 4;
 		delete f.id;
 		const byPath = Object.fromEntries(errorsOf(b).map((e) => [e.path, e.message]));
-		expect(byPath['facets.0.pitch']).toMatch(/pitch must be at most 24/);
-		expect(byPath['facets.0.growth']).toMatch(/growth must be one of: G0, G1, G2, G3, G4/);
-		expect(byPath['facets.0.access']).toMatch(/access must be one of: ground, ladder, roof, lift/);
+		expect(byPath['facets.0.pitch']).toBe('pitch (rise per 12) must be between 0 and 24');
+		expect(byPath['facets.0.growth']).toMatch(/growth grade must be one of: G0, G1, G2, G3, G4/);
+		expect(byPath['facets.0.access']).toMatch(
+			/access grade must be one of: ground, ladder, roof, lift/
+		);
 		expect(byPath['facets.0.stories']).toMatch(/stories must be 1, 2 or 3/);
-		expect(byPath['facets.0.id']).toMatch(/facet id is required/);
+		expect(byPath['facets.0.id']).toMatch(/facet id must be a string/);
 	});
 
 	it('validates polygons strictly: range, closure, positions, vertices, holes, numbers', () => {
@@ -79,42 +81,42 @@ describe('estimateRequestSchema', () => {
 			(b.facets as Array<Record<string, unknown>>)[0] = {
 				...(b.facets as Array<Record<string, unknown>>)[0],
 				edges: undefined,
-				polygon: { type: 'Polygon', coordinates: [r], ...extra }
+				geometry: { type: 'Polygon', coordinates: [r], ...extra }
 			};
 			return b;
 		};
 		const first = (b: unknown) => errorsOf(b)[0];
 		expect(first(withRing(ring.map((p, i) => (i === 1 ? [200, p[1]] : p))))).toEqual({
-			path: 'facets.0.polygon.coordinates.0.1.0',
-			message: 'longitude must be at most 180'
+			path: 'facets.0.geometry.coordinates.0.1.0',
+			message: 'longitude must be between -180 and 180'
 		});
 		expect(first(withRing(ring.map((p, i) => (i === 2 ? [p[0], -95] : p)))).path).toBe(
-			'facets.0.polygon.coordinates.0.2.1'
+			'facets.0.geometry.coordinates.0.2.1'
 		);
 		expect(first(withRing(ring.slice(0, 4))).message).toMatch(/not closed/);
-		expect(first(withRing([ring[0], ring[1], ring[0]])).message).toMatch(/at least 4 positions/);
+		expect(first(withRing([ring[0], ring[1], ring[0]])).message).toMatch(/at least 3 corners/);
 		expect(first(withRing(ring.map((p, i) => (i === 1 ? [p[0], 'x'] : p)))).message).toMatch(
 			/latitude must be a finite number/
 		);
 		expect(first(withRing(ring.map((p, i) => (i === 1 ? [p[0]] : p)))).path).toMatch(
-			/^facets\.0\.polygon\.coordinates\.0\.1/
+			/^facets\.0\.geometry\.coordinates\.0\.1/
 		);
-		const many = Array.from({ length: 501 }, (_, k) => {
-			const a = (2 * Math.PI * k) / 501;
+		const many = Array.from({ length: 201 }, (_, k) => {
+			const a = (2 * Math.PI * k) / 201;
 			return plane.toLonLat([10 * Math.cos(a), 10 * Math.sin(a)]);
 		});
 		many.push(many[0]);
-		expect(first(withRing(many)).message).toMatch(/at most 500 vertices/);
+		expect(first(withRing(many)).message).toMatch(/at most 200 corners/);
 		const b = body();
 		const f0 = (b.facets as Array<Record<string, unknown>>)[0];
-		f0.polygon = { type: 'Polygon', coordinates: [ring, ring] };
+		f0.geometry = { type: 'Polygon', coordinates: [ring, ring] };
 		f0.edges = undefined;
 		expect(first(b).message).toMatch(/exactly one ring/);
-		f0.polygon = { type: 'MultiPolygon', coordinates: [[ring]] };
-		expect(first(b).path).toBe('facets.0.polygon.type');
+		f0.geometry = { type: 'MultiPolygon', coordinates: [[ring]] };
+		expect(first(b).path).toBe('facets.0.geometry.type');
 		// JSON cannot carry NaN, but a caller in-process can
 		expect(first(withRing(ring.map((p, i) => (i === 1 ? [Number.NaN, p[1]] : p)))).path).toBe(
-			'facets.0.polygon.coordinates.0.1.0'
+			'facets.0.geometry.coordinates.0.1.0'
 		);
 	});
 
@@ -140,16 +142,16 @@ describe('estimateRequestSchema', () => {
 		delete b.siteId;
 		fs[0].edges = undefined;
 		const later = Object.fromEntries(errorsOf(b).map((e) => [e.path, e.message]));
-		expect(later['facets.1.id']).toMatch(/used twice/);
+		expect(later['facets.1.id']).toMatch(/also used by facet 1/);
 		expect(later['testSpot.facetIds.0']).toMatch(/unknown facet "nope"/);
 
 		expect(errorsOf({ facets: [] })[0]).toEqual({
 			path: 'facets',
 			message: 'facets must list at least one facet'
 		});
-		const many = Array.from({ length: 201 }, (_, i) => ({ ...gableRoof()[0], id: `f${i}` }));
+		const many = Array.from({ length: 101 }, (_, i) => ({ ...gableRoof()[0], id: `f${i}` }));
 		expect(errorsOf(JSON.parse(JSON.stringify({ facets: many })))[0].message).toMatch(
-			/at most 200/
+			/at most 100 facets/
 		);
 		expect(errorsOf({})[0]).toEqual({
 			path: 'facets',
@@ -157,29 +159,33 @@ describe('estimateRequestSchema', () => {
 		});
 	});
 
-	it('geometry zod cannot see comes back from the model with a facets.N.polygon path', () => {
+	it('refuses a crossing outline in the schema, and the model names the same path', () => {
 		const b = body();
 		const fs = b.facets as Array<Record<string, unknown>>;
 		const ring = plane.rectFt(30, 20, 100).coordinates[0];
-		fs.push({
+		const bent = {
 			...fs[0],
 			id: 'bent',
 			edges: undefined,
-			polygon: { type: 'Polygon', coordinates: [[ring[0], ring[2], ring[1], ring[3], ring[0]]] }
-		});
-		const parsed = estimateRequestSchema.parse(b);
+			geometry: { type: 'Polygon', coordinates: [[ring[0], ring[2], ring[1], ring[3], ring[0]]] }
+		};
+		fs.push(bent);
+		expect(errorsOf(b)).toEqual([
+			{ path: 'facets.2.geometry', message: expect.stringMatching(/crosses itself/) }
+		]);
+		// A caller of the model alone (no schema) hears of it at the same path.
+		const input = toEstimateInput(estimateRequestSchema.parse({ facets: gableRoof() }));
 		let err: unknown;
 		try {
-			estimate(toEstimateInput(parsed), DEFAULT_RATE_CARD);
+			estimate({ ...input, facets: [...input.facets, bent as never] }, DEFAULT_RATE_CARD);
 		} catch (e) {
 			err = e;
 		}
 		expect(err).toBeInstanceOf(EstimateInputError);
-		const issues = fieldIssues((err as EstimateInputError).issues);
-		expect(issues).toEqual([
-			{ path: 'facets.2.polygon', message: expect.stringMatching(/crosses itself/) }
+		expect(fieldIssues((err as EstimateInputError).issues)).toEqual([
+			{ path: 'facets.2.geometry', message: expect.stringMatching(/crosses itself/) }
 		]);
-		expect((err as Error).message).toMatch(/^facets\.2\.polygon: /);
+		expect((err as Error).message).toMatch(/^facets\.2\.geometry: /);
 	});
 });
 

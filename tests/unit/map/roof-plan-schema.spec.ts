@@ -1,6 +1,7 @@
 // The roof-plan body schema (src/lib/schemas/roof-plan.ts): what a save accepts and refuses.
 import { describe, expect, it } from 'vitest';
-import { planIssues, savePlanSchema, PLAN_LIMITS } from '../../../src/lib/schemas/roof-plan';
+import { planIssues, savePlanSchema } from '../../../src/lib/schemas/roof-plan';
+import { FACET_LIMITS } from '../../../src/lib/schemas/facet';
 import { planFacetsOf } from '../../../geodata/scene';
 import { rectangleM } from './reference';
 
@@ -173,8 +174,8 @@ describe('savePlanSchema', () => {
 		});
 	}
 
-	it(`refuses more than ${PLAN_LIMITS.maxVerticesPerFacet} corners`, () => {
-		const n = PLAN_LIMITS.maxVerticesPerFacet + 1;
+	it(`refuses more than ${FACET_LIMITS.maxCorners} corners`, () => {
+		const n = FACET_LIMITS.maxCorners + 1;
 		const ring = Array.from({ length: n }, (_, i) => {
 			const a = (2 * Math.PI * i) / n;
 			return [lon0 + 0.0001 * Math.cos(a), lat0 + 0.0001 * Math.sin(a)];
@@ -190,8 +191,8 @@ describe('savePlanSchema', () => {
 		expect(issuesFor(withBad({ type: 'Polygon', coordinates: [ok] }, noEdges))).toEqual([]);
 	});
 
-	it(`refuses more than ${PLAN_LIMITS.maxFacets} facets and an empty plan`, () => {
-		const many = Array.from({ length: PLAN_LIMITS.maxFacets + 1 }, (_, i) => ({
+	it(`refuses more than ${FACET_LIMITS.maxFacets} facets and an empty plan`, () => {
+		const many = Array.from({ length: FACET_LIMITS.maxFacets + 1 }, (_, i) => ({
 			...good[0],
 			id: `f${i}`
 		}));

@@ -77,7 +77,7 @@ describe('priceRequest', () => {
 		const bad = { facets: gableRoof().map((f, i) => (i === 0 ? { ...f, pitch: 30 } : f)) };
 		expect(refusal(run(bad)).issues).toContainEqual({
 			path: 'facets.0.pitch',
-			message: 'pitch must be at most 24'
+			message: 'Facet 1: pitch (rise per 12) must be between 0 and 24'
 		});
 		// Roof access on clay tile: not walked (common practice, no single source;
 		// docs/estimating-model.md §5).

@@ -31,7 +31,7 @@ export const EXAMPLE_REQUEST = {
 		{
 			id: 'south',
 			label: 'South slope',
-			polygon: { type: 'Polygon', coordinates: [rectangle(35.5197, -74.4614, 40, 30)] },
+			geometry: { type: 'Polygon', coordinates: [rectangle(35.5197, -74.4614, 40, 30)] },
 			pitch: 6,
 			material: 'asphalt_shingle',
 			growth: 'G2',

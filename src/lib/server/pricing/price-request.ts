@@ -4,10 +4,10 @@ import type { EstimateInput, EstimateResult } from '../../estimating/types';
 import {
 	estimateRequestSchema,
 	toEstimateInput,
-	type EstimateRequest,
-	type FacetRequest
+	type EstimateRequest
 } from '../../schemas/estimate';
-import { invalidRefusal, issuesOf, parseJsonBody, type Refusal } from '../api/refusal';
+import { facetIssues, sentFacets, type Facet } from '../../schemas/facet';
+import { invalidRefusal, parseJsonBody, type Refusal } from '../api/refusal';
 
 /**
  * The CPU-bound part of POST /api/estimates, from body bytes to answer bytes: decode, parse,
@@ -74,8 +74,8 @@ function cardOf(ref: CardRef): RateCard {
 const encoder = new TextEncoder();
 
 /** Key order and blank labels aside, the same facets in the same order. */
-function sameFacets(a: FacetRequest[], b: FacetRequest[]): boolean {
-	const canon = (fs: FacetRequest[]) =>
+function sameFacets(a: Facet[], b: Facet[]): boolean {
+	const canon = (fs: Facet[]) =>
 		JSON.stringify(fs.map(({ label, ...f }) => sorted({ ...f, label: label?.trim() || null })));
 	return canon(a) === canon(b);
 }
@@ -97,7 +97,10 @@ export function priceRequest(task: PriceTask): PriceOutcome {
 	if (!body.ok) return { kind: 'refused', refusal: body.refusal };
 	const parsed = estimateRequestSchema.safeParse(body.value);
 	if (!parsed.success) {
-		return { kind: 'refused', refusal: invalidRefusal(issuesOf(parsed.error.issues)) };
+		return {
+			kind: 'refused',
+			refusal: invalidRefusal(facetIssues(parsed.error.issues, sentFacets(body.value)))
+		};
 	}
 	if (parsed.data.save && !parsed.data.siteId) {
 		return {
@@ -118,7 +121,7 @@ export function priceRequest(task: PriceTask): PriceOutcome {
 		if (!withFacets.success) {
 			return {
 				kind: 'refused',
-				refusal: invalidRefusal(issuesOf(withFacets.error.issues), 'roof plan')
+				refusal: invalidRefusal(facetIssues(withFacets.error.issues, task.plan.facets), 'roof plan')
 			};
 		}
 		// Facets sent along with a roofPlanId must be that plan's, or it is unclear which was meant.
@@ -142,7 +145,10 @@ export function priceRequest(task: PriceTask): PriceOutcome {
 	const input = toEstimateInput(request);
 	const outcome = tryEstimate(input, cardOf(task.card));
 	if (!outcome.ok) {
-		return { kind: 'refused', refusal: invalidRefusal(issuesOf(outcome.issues), 'roof plan') };
+		return {
+			kind: 'refused',
+			refusal: invalidRefusal(facetIssues(outcome.issues, input.facets), 'roof plan')
+		};
 	}
 	const rateCard = { id: task.card.id, version: task.card.version };
 	if (request.save) {

@@ -66,7 +66,7 @@ async function planFor(companyId: string, planId: string, siteId: string | null)
 
 /** A stored plan facet as /api/estimates takes it. */
 function toRequestFacet({ geometry, label, ...f }: PlanFacet) {
-	return { ...f, ...(label ? { label } : {}), polygon: geometry };
+	return { ...f, ...(label ? { label } : {}), geometry };
 }
 
 /** Stores a priced request as a draft for its site, frozen with its input, result and card. */

@@ -1,12 +1,8 @@
 import { and, desc, eq, inArray, max } from 'drizzle-orm';
 import type { Polygon } from 'geojson';
 import { measurePlan } from '$lib/map/plan-measure';
-import {
-	planFacetSchema,
-	type PlanFacet,
-	type PlanSource,
-	type SavePlanInput
-} from '$lib/schemas/roof-plan';
+import { facetSchema } from '$lib/schemas/facet';
+import type { PlanFacet, PlanSource, SavePlanInput } from '$lib/schemas/roof-plan';
 import type { RoofPlanDto, VersionSummary } from '../../types/roof-plan';
 import { getDb } from '../db';
 import { roofPlans, sites, users } from '../db/schema';
@@ -56,7 +52,7 @@ export function fromCollection(value: unknown): PlanFacet[] {
 			: [];
 	const out: PlanFacet[] = [];
 	for (const f of features) {
-		const parsed = planFacetSchema.safeParse({
+		const parsed = facetSchema.safeParse({
 			...(f?.properties ?? {}),
 			id: String(f?.id ?? ''),
 			geometry: f?.geometry
