@@ -130,7 +130,12 @@ describe('Estimates list', () => {
 		await page.goto(`${server.url}/estimates?site=${site.id}`);
 		await waitRows(1);
 		expect(await rows().first().innerText()).toContain(site.address);
-		expect(await page.getByLabel('Site').inputValue()).toBe(site.id);
+		const chip = page.getByTestId('estimates-site-filter');
+		expect(await chip.innerText()).toContain(site.address);
+		// "All sites" drops the site and keeps the rest of the filter.
+		await chip.getByRole('link', { name: 'All sites' }).click();
+		await page.waitForURL((u) => !u.searchParams.has('site'));
+		expect(await rows().count()).toBeGreaterThan(1);
 	});
 });
 

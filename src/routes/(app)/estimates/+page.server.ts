@@ -1,7 +1,7 @@
 import { redirect } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth/guard';
 import { listEstimates } from '$lib/server/services/estimates';
-import { listSites } from '$lib/server/services/sites';
+import { getSite } from '$lib/server/services/sites';
 import {
 	ESTIMATES_PAGE_SIZE,
 	estimateListSearch,
@@ -14,8 +14,10 @@ export const load: PageServerLoad = async (event) => {
 	const user = requireRole(event, 'owner', 'estimator', 'sales');
 	const { filters, ignored } = readEstimateListFilters(event.url.searchParams);
 	const { page, site, ...rest } = filters;
-	const [sites, list] = await Promise.all([
-		listSites(user.companyId),
+	// Only the site filtered on is read: a company may have thousands, and the text box finds
+	// estimates by address without a list of them all.
+	const [siteRow, list] = await Promise.all([
+		site ? getSite(user.companyId, site) : undefined,
 		listEstimates(user.companyId, {
 			...rest,
 			siteId: site,
@@ -29,7 +31,7 @@ export const load: PageServerLoad = async (event) => {
 		redirect(303, `/estimates${estimateListSearch(filters, last)}`);
 	}
 	return {
-		sites: sites.map((s) => ({ id: s.id, address: s.address })),
+		site: siteRow ? { id: siteRow.site.id, address: siteRow.site.address } : null,
 		filters,
 		ignored,
 		list: {
