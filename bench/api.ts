@@ -44,13 +44,13 @@ export interface ApiBench {
 	pricingThreads: number;
 }
 
-function quantile(sorted: number[], q: number): number {
+export function quantile(sorted: number[], q: number): number {
 	if (sorted.length === 0) return NaN;
 	const i = Math.min(sorted.length - 1, Math.max(0, Math.ceil(q * sorted.length) - 1));
 	return sorted[i];
 }
 
-function run(opts: Record<string, unknown>, times?: number[]): Promise<Result> {
+export function run(opts: Record<string, unknown>, times?: number[]): Promise<Result> {
 	return new Promise((resolve, reject) => {
 		const inst = autocannon(opts, (err, res) => (err ? reject(err) : resolve(res)));
 		if (times) inst.on('response', (_c, status, _b, ms) => status < 300 && times.push(ms));
@@ -61,7 +61,7 @@ function run(opts: Record<string, unknown>, times?: number[]): Promise<Result> {
  * Runs a private copy of build/, so a rebuild in the shared tree during the run can't swap the
  * server's files underneath it.
  */
-async function startSnapshotServer(dataDir: string) {
+export async function startSnapshotServer(dataDir: string) {
 	if (!fs.existsSync('build/index.js')) throw new Error('Run `npx vite build` before the bench.');
 	const snapshot = path.resolve('tmp', `bench-build-${process.pid}`);
 	fs.rmSync(snapshot, { recursive: true, force: true });
