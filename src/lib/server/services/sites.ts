@@ -38,17 +38,6 @@ const summary = {
 	customerName: customers.name
 };
 
-/** Every site of the company: only for small pickers; lists use `listSitesPage`. */
-export async function listSites(companyId: string, q?: string): Promise<SiteSummary[]> {
-	const db = await getDb();
-	return db
-		.select(summary)
-		.from(sites)
-		.innerJoin(customers, eq(customers.id, sites.customerId))
-		.where(searchFilter(companyId, q))
-		.orderBy(asc(sites.address), asc(sites.id));
-}
-
 export type SitePage = { items: SiteSummary[]; total: number; page: number; pageSize: number };
 
 /**
