@@ -19,7 +19,10 @@ export interface NumberedFacet {
 export function checklistItems(facets: readonly NumberedFacet[]): ChecklistItem[] {
 	return [
 		{ key: 'prewet', label: 'Pre-wet plants, lawn and beds' },
-		{ key: 'cover', label: 'Cover what must be covered (plants, drains, vents, ponds); downspouts diverted' },
+		{
+			key: 'cover',
+			label: 'Cover what must be covered (plants, drains, vents, ponds); downspouts diverted'
+		},
 		{ key: 'testspot', label: 'Test spot done' },
 		...facets.map((f) => ({
 			key: `facet:${f.id}`,
@@ -31,7 +34,10 @@ export function checklistItems(facets: readonly NumberedFacet[]): ChecklistItem[
 }
 
 /** Items not yet ticked. Keys the list doesn't know are ignored, not counted. */
-export function unticked(items: readonly ChecklistItem[], ticks: Record<string, boolean>): ChecklistItem[] {
+export function unticked(
+	items: readonly ChecklistItem[],
+	ticks: Record<string, boolean>
+): ChecklistItem[] {
 	return items.filter((i) => ticks[i.key] !== true);
 }
 

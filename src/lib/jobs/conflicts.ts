@@ -11,7 +11,14 @@ export interface PlannedJob {
 
 export type Conflict =
 	| { kind: 'double-booked'; memberId: string; date: string; jobIds: [string, string] }
-	| { kind: 'over-hours'; memberId: string; date: string; hours: number; limit: number; jobIds: string[] };
+	| {
+			kind: 'over-hours';
+			memberId: string;
+			date: string;
+			hours: number;
+			limit: number;
+			jobIds: string[];
+	  };
 
 /**
  * Where a crew member is booked twice at once, or for more hours in a day than the limit.
@@ -65,7 +72,9 @@ export function findConflicts(jobs: readonly PlannedJob[], dayHoursLimit: number
 	}
 	return out.sort(
 		(a, b) =>
-			a.date.localeCompare(b.date) || a.memberId.localeCompare(b.memberId) || a.kind.localeCompare(b.kind)
+			a.date.localeCompare(b.date) ||
+			a.memberId.localeCompare(b.memberId) ||
+			a.kind.localeCompare(b.kind)
 	);
 }
 

@@ -58,19 +58,18 @@ const reason = z
 	.max(500, 'Keep the reason under 500 characters.')
 	.refine(noNul, NUL_MESSAGE);
 
-export const postponeSchema = z
-	.object({
-		jobId: uuid('The job'),
-		revision: z.coerce.number().int().min(1, 'Reload the schedule and try again.'),
-		reason,
-		/** Empty: postponed with no new date yet. */
-		newDate: z
-			.string()
-			.trim()
-			.optional()
-			.transform((v) => (v ? v : null))
-			.refine((v) => v === null || isIsoDate(v), 'Pick a date (YYYY-MM-DD), or leave it empty.')
-	});
+export const postponeSchema = z.object({
+	jobId: uuid('The job'),
+	revision: z.coerce.number().int().min(1, 'Reload the schedule and try again.'),
+	reason,
+	/** Empty: postponed with no new date yet. */
+	newDate: z
+		.string()
+		.trim()
+		.optional()
+		.transform((v) => (v ? v : null))
+		.refine((v) => v === null || isIsoDate(v), 'Pick a date (YYYY-MM-DD), or leave it empty.')
+});
 
 export const doneSchema = z.object({
 	reason: z

@@ -41,7 +41,9 @@ export function prepList(notes: JobEmailInput['notes']): string[] {
 
 /** The e-mail a customer gets for each change to their visit, as text and escaped HTML. */
 export function buildJobEmail(p: JobEmailInput): BuiltEmail {
-	const when = p.date ? `${longDay(p.date)}, arriving between ${p.windowStart} and ${p.windowEnd}` : null;
+	const when = p.date
+		? `${longDay(p.date)}, arriving between ${p.windowStart} and ${p.windowEnd}`
+		: null;
 	const head =
 		p.kind === 'scheduled'
 			? `Your roof cleaning at ${p.siteAddress} is booked for ${when}.`

@@ -63,11 +63,7 @@ export async function listSchedulable(companyId: string): Promise<Schedulable[]>
 		.innerJoin(customers, eq(customers.id, sites.customerId))
 		.leftJoin(jobs, eq(jobs.estimateId, estimates.id))
 		.where(
-			and(
-				eq(estimates.companyId, companyId),
-				eq(estimates.status, 'accepted'),
-				isNull(jobs.id)
-			)
+			and(eq(estimates.companyId, companyId), eq(estimates.status, 'accepted'), isNull(jobs.id))
 		)
 		.orderBy(asc(sites.address));
 	return rows;
@@ -90,7 +86,13 @@ function entry(
  */
 export async function scheduleJob(
 	caller: Caller,
-	input: { estimateId: string; date: string; windowStart: string; windowEnd: string; crewIds: string[] }
+	input: {
+		estimateId: string;
+		date: string;
+		windowStart: string;
+		windowEnd: string;
+		crewIds: string[];
+	}
 ): Promise<{ jobId: string; mail: string }> {
 	const db = await getDb();
 	const plan: Plan = {
@@ -116,7 +118,8 @@ export async function scheduleJob(
 			.set({ status: 'scheduled' })
 			.where(and(eq(estimates.id, input.estimateId), eq(estimates.status, 'accepted')))
 			.returning({ id: estimates.id });
-		if (!moved.length) throw new Conflict('Someone changed this estimate at the same time; reload.');
+		if (!moved.length)
+			throw new Conflict('Someone changed this estimate at the same time; reload.');
 		const [row] = await tx
 			.insert(jobs)
 			.values({
@@ -145,7 +148,9 @@ async function jobRow(tx: Tx, companyId: string, jobId: string) {
 function assertOpen(j: { status: JobStatus; revision: number }, revision: number) {
 	if (j.status === 'done') throw new Conflict('This job is done; it can no longer be moved.');
 	if (j.revision !== revision) {
-		throw new Conflict('Someone changed this job since you opened the schedule; reload and try again.');
+		throw new Conflict(
+			'Someone changed this job since you opened the schedule; reload and try again.'
+		);
 	}
 }
 
@@ -182,7 +187,12 @@ export async function moveJob(
 		const j = await jobRow(tx, caller.companyId, input.jobId);
 		assertOpen(j, input.revision);
 		await assertCrew(tx, caller.companyId, plan.crewIds);
-		await appendChange(tx, j, { ...plan, status: 'scheduled' }, entry('moved', caller, plan, { from: planOf(j) }));
+		await appendChange(
+			tx,
+			j,
+			{ ...plan, status: 'scheduled' },
+			entry('moved', caller, plan, { from: planOf(j) })
+		);
 	});
 	return { mail: await mailJobChange(caller.companyId, input.jobId, 'moved') };
 }
@@ -227,7 +237,8 @@ async function appendChange(
 		})
 		.where(and(eq(jobs.id, j.id), eq(jobs.revision, j.revision)))
 		.returning({ id: jobs.id });
-	if (!done.length) throw new Conflict('Someone changed this job at the same time; reload and try again.');
+	if (!done.length)
+		throw new Conflict('Someone changed this job at the same time; reload and try again.');
 }
 
 function weekJob(r: {
@@ -422,10 +433,14 @@ export async function saveLog(
 }
 
 /**
- * Marks a job done (and its estimate `done`): refused (409, with what is missing) unless the
+ * Marks a job done (and its estimate `done`): refused (Invalid, with what is missing) unless the
  * whole checklist is ticked and there is at least one after photo, or a reason is given.
  */
-export async function markDone(caller: Caller, jobId: string, reason: string | null): Promise<void> {
+export async function markDone(
+	caller: Caller,
+	jobId: string,
+	reason: string | null
+): Promise<void> {
 	if (caller.role !== 'owner' && caller.role !== 'crew') {
 		throw new Forbidden('Only the crew on the job or the owner can mark it done.');
 	}
@@ -435,10 +450,13 @@ export async function markDone(caller: Caller, jobId: string, reason: string | n
 	if (sheet.job.status !== 'scheduled') {
 		throw new Conflict('A postponed job needs a date before it can be done.');
 	}
-	const items = checklistItems(sheet.result.facets.map((f, i) => ({ id: f.id, n: i + 1, label: f.label })));
+	const items = checklistItems(
+		sheet.result.facets.map((f, i) => ({ id: f.id, n: i + 1, label: f.label }))
+	);
 	const check = checkDone({ items, log: sheet.log, afterPhotos: sheet.afterPhotos, reason });
 	if (!check.ok) {
-		throw new Conflict(
+		// A field refusal (400): in this state the reason is what the form is missing.
+		throw new Invalid(
 			`Not done yet: ${check.missing.join('; ')}. Tick the checklist and add an after photo, or give a reason.`,
 			check.missing.map((m) => ({ path: 'reason', message: m }))
 		);
