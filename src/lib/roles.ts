@@ -59,6 +59,7 @@ export const ACCESS: readonly { route: string; roles: Access }[] = [
 	{ route: '/api/sites/[id]/roof-plans', roles: OFFICE },
 	{ route: '/api/sites/[id]/roof-plans/[version]', roles: OFFICE },
 	{ route: '/api/team', roles: ['owner'] },
+	{ route: '/api/jobs/[id]', roles: ['owner', 'sales', 'crew'] },
 	{ route: '/api/jobs/[id]/log', roles: ['owner', 'crew'] },
 	// The bundled sample imagery: generated pictures of an invented town, no company data.
 	{ route: '/tiles/tiles.json', roles: PUBLIC },

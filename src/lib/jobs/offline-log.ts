@@ -34,7 +34,11 @@ export async function readLocal(jobId: string): Promise<LocalLog | undefined> {
 }
 
 /** Keeps a change on the device as pending; answers the stored entry. */
-export async function keepLocal(jobId: string, log: JobLogState, now = new Date()): Promise<LocalLog> {
+export async function keepLocal(
+	jobId: string,
+	log: JobLogState,
+	now = new Date()
+): Promise<LocalLog> {
 	const entry: LocalLog = {
 		jobId,
 		log: structuredClone(log),
@@ -50,7 +54,8 @@ export async function markSent(jobId: string, clientUpdatedAt: string): Promise<
 	const d = await db();
 	const tx = d.transaction('logs', 'readwrite');
 	const cur = await tx.store.get(jobId);
-	if (cur && cur.clientUpdatedAt === clientUpdatedAt) await tx.store.put({ ...cur, pending: false });
+	if (cur && cur.clientUpdatedAt === clientUpdatedAt)
+		await tx.store.put({ ...cur, pending: false });
 	await tx.done;
 }
 
@@ -78,5 +83,10 @@ export async function sendLocal(entry: LocalLog): Promise<SendResult> {
 	// The service worker answers 503 for a send it could not make.
 	if (res.status === 503) return { ok: false, offline: true };
 	const body = (await res.json().catch(() => null)) as { message?: string } | null;
-	return { ok: false, offline: false, status: res.status, message: body?.message ?? res.statusText };
+	return {
+		ok: false,
+		offline: false,
+		status: res.status,
+		message: body?.message ?? res.statusText
+	};
 }

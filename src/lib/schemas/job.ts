@@ -24,7 +24,12 @@ const crewIds = z
 	.transform((ids) => [...new Set(ids)]);
 
 const windowEndsAfterStart = {
-	check: (v: { windowStart: string; windowEnd: string }) =>
+	// Zod runs an object's refinements even when a field failed: judge only two real times.
+	check: (v: { windowStart: unknown; windowEnd: unknown }) =>
+		typeof v.windowStart !== 'string' ||
+		typeof v.windowEnd !== 'string' ||
+		!isHm(v.windowStart) ||
+		!isHm(v.windowEnd) ||
 		minutesOf(v.windowEnd) > minutesOf(v.windowStart),
 	params: { path: ['windowEnd'], message: 'The window must end after it starts.' }
 };

@@ -299,7 +299,8 @@ export async function listSheets(caller: Caller, from: string): Promise<WeekJob[
 				caller.role === 'crew' ? sql`${caller.id}::uuid = any(${jobs.crewIds})` : undefined
 			)
 		)
-		.orderBy(asc(jobs.date), asc(jobs.windowStart));
+		// Open jobs first (soonest on top), then the done ones.
+		.orderBy(sql`${jobs.status} = 'done'`, asc(jobs.date), asc(jobs.windowStart));
 	return rows.map(weekJob);
 }
 
@@ -376,6 +377,37 @@ export async function getSheet(caller: Caller, jobId: string): Promise<CrewSheet
 				}
 			: { ...EMPTY_LOG, doneReason: null, updatedAt: null },
 		afterPhotos: await countAfterPhotos(caller.companyId, jobId)
+	};
+}
+
+/** A job as the API shows it, or undefined when the caller may not see it. */
+export async function getJob(caller: Caller, jobId: string) {
+	const db = await getDb();
+	const [r] = await db
+		.select({ j: jobs, address: sites.address, customerName: customers.name })
+		.from(jobs)
+		.innerJoin(estimates, eq(estimates.id, jobs.estimateId))
+		.innerJoin(sites, eq(sites.id, estimates.siteId))
+		.innerJoin(customers, eq(customers.id, sites.customerId))
+		.where(and(eq(jobs.id, jobId), eq(jobs.companyId, caller.companyId)));
+	if (!r) return undefined;
+	if (caller.role !== 'sales' && !mayWork(caller, r.j.crewIds)) return undefined;
+	const [log] = await db.select().from(jobLogs).where(eq(jobLogs.jobId, jobId));
+	return {
+		...weekJob(r),
+		history: r.j.history,
+		doneAt: r.j.doneAt,
+		log: log
+			? {
+					checklist: log.checklist,
+					stockGalUsed: log.stockGalUsed,
+					surfactantOzUsed: log.surfactantOzUsed,
+					measuredStockPct: log.measuredStockPct,
+					notes: log.notes,
+					doneReason: log.doneReason,
+					updatedAt: log.updatedAt
+				}
+			: null
 	};
 }
 
