@@ -67,7 +67,7 @@ async function run<S extends z.ZodType>(
 	go: (
 		user: ReturnType<typeof requireRole>,
 		data: z.output<S>
-	) => Promise<{ mail: MailOutcome | string; done: string }>
+	) => Promise<{ mail: MailOutcome | string; done: string; jobId?: string }>
 ) {
 	const user = requireRole(event, 'owner', 'sales');
 	const values = await readForm(event);
@@ -82,9 +82,16 @@ async function run<S extends z.ZodType>(
 	}
 	try {
 		const r = await go(user, parsed.data);
-		return { action, done: `${r.done} ${MAIL_NOTES[r.mail as MailOutcome] ?? ''}`.trim() };
+		return {
+			action,
+			jobId: r.jobId ?? null,
+			done: `${r.done} ${MAIL_NOTES[r.mail as MailOutcome] ?? ''}`.trim()
+		};
 	} catch (e) {
-		if (e instanceof DomainError) return fail(statusOf(e), { action, message: e.message });
+		if (e instanceof DomainError) {
+			const errors = Object.fromEntries((e.issues ?? []).map((i) => [i.path, i.message]));
+			return fail(statusOf(e), { action, message: e.message, errors });
+		}
 		throw e;
 	}
 }
@@ -93,7 +100,7 @@ export const actions: Actions = {
 	schedule: (event) =>
 		run(event, 'schedule', scheduleSchema, async (user, d) => {
 			const r = await scheduleJob(user, d);
-			return { mail: r.mail, done: 'Scheduled.' };
+			return { mail: r.mail, done: 'Scheduled.', jobId: r.jobId };
 		}),
 	move: (event) =>
 		run(event, 'move', moveSchema, async (user, d) => {
