@@ -20,7 +20,9 @@ export type EstimateStatus = (typeof ESTIMATE_STATUSES)[number];
 
 /**
  * The moves an estimate can make and who may make them. The owner may make any of them; the
- * estimator readies a draft; sales sends, and records the customer's answer.
+ * estimator readies a draft; sales sends, and records the customer's answer; the crew closes
+ * the job it worked. Two moves carry data of their own and are made only where that data is
+ * entered (JOB_MOVES): scheduling (date, window, crew) and done (the crew's log).
  */
 const TRANSITIONS: Record<EstimateStatus, Partial<Record<EstimateStatus, readonly Role[]>>> = {
 	draft: { ready: ['owner', 'estimator'] },
@@ -31,7 +33,7 @@ const TRANSITIONS: Record<EstimateStatus, Partial<Record<EstimateStatus, readonl
 		expired: ['owner', 'sales']
 	},
 	accepted: { scheduled: ['owner', 'sales'] },
-	scheduled: { done: ['owner'] },
+	scheduled: { done: ['owner', 'crew'] },
 	done: { paid: ['owner'] },
 	paid: {},
 	declined: {},
@@ -55,3 +57,9 @@ export function rolesForMove(
 ): readonly Role[] | undefined {
 	return TRANSITIONS[from][to];
 }
+
+/** Moves made by scheduling and by the crew sheet, never by a bare status change. */
+export const JOB_MOVES: Partial<Record<EstimateStatus, string>> = {
+	scheduled: 'Schedule it on the Schedule page: it needs a date, a window and a crew.',
+	done: 'Mark it done on its crew sheet: it needs the checklist and an after photo, or a reason.'
+};

@@ -38,7 +38,10 @@ export const ACCESS: readonly { route: string; roles: Access }[] = [
 	{ route: '/sites/[id]/roof', roles: OFFICE },
 	{ route: '/estimates', roles: OFFICE },
 	{ route: '/estimates/[id]', roles: OFFICE },
+	{ route: '/schedule', roles: ['owner', 'sales'] },
 	{ route: '/crew', roles: ['owner', 'crew'] },
+	// Crew open only the sheets of jobs they are on; the service answers 404 for the others.
+	{ route: '/crew/[id]', roles: ['owner', 'crew'] },
 	{ route: '/rates', roles: ['owner'] },
 	{ route: '/team', roles: ['owner'] },
 	{ route: '/settings', roles: ['owner'] },
@@ -56,13 +59,15 @@ export const ACCESS: readonly { route: string; roles: Access }[] = [
 	{ route: '/api/sites/[id]/roof-plans', roles: OFFICE },
 	{ route: '/api/sites/[id]/roof-plans/[version]', roles: OFFICE },
 	{ route: '/api/team', roles: ['owner'] },
+	{ route: '/api/jobs/[id]', roles: ['owner', 'sales', 'crew'] },
+	{ route: '/api/jobs/[id]/log', roles: ['owner', 'crew'] },
 	// The bundled sample imagery: generated pictures of an invented town, no company data.
 	{ route: '/tiles/tiles.json', roles: PUBLIC },
 	{ route: '/tiles/[z]/[x]/[y]', roles: PUBLIC }
 ];
 
 /** Paths SvelteKit serves from outside src/routes (built assets); open like a public row. */
-export const PUBLIC_FILES: readonly string[] = ['/_app/', '/favicon.svg'];
+export const PUBLIC_FILES: readonly string[] = ['/_app/', '/favicon.svg', '/service-worker.js'];
 
 export function isPublicFile(pathname: string): boolean {
 	return PUBLIC_FILES.some((p) => (p.endsWith('/') ? pathname.startsWith(p) : pathname === p));
@@ -116,6 +121,7 @@ const NAV: readonly NavItem[] = [
 	{ href: '/', label: 'Today' },
 	{ href: '/sites', label: 'Sites' },
 	{ href: '/estimates', label: 'Estimates' },
+	{ href: '/schedule', label: 'Schedule' },
 	{ href: '/crew', label: 'Crew sheets' },
 	{ href: '/rates', label: 'Rates' },
 	{ href: '/team', label: 'Team' },

@@ -12,6 +12,8 @@ import { listRoutes, type RouteInfo } from '../helpers/routes';
 import { DEMO, seededDataDir, startServer, type TestServer } from '../helpers/server';
 import { planFacetsOf } from '../../geodata/scene';
 import { prepareDataDir, sceneRequest, type Prepared } from './api-helpers';
+import { acceptedEstimate, crewIds, scheduleViaForm } from '../helpers/jobs';
+import { localToday } from '../../src/lib/jobs/week';
 
 const OFFICE: Role[] = ['owner', 'estimator', 'sales'];
 const ALL: Role[] = [...ROLES];
@@ -28,7 +30,10 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
 	'/sites/[id]/roof': OFFICE,
 	'/estimates': OFFICE,
 	'/estimates/[id]': OFFICE,
+	'/schedule': ['owner', 'sales'],
 	'/crew': ['owner', 'crew'],
+	// The sheet of a job the demo crew member is on; other crew get 404 (tests/integration/jobs.spec.ts).
+	'/crew/[id]': ['owner', 'crew'],
 	'/rates': ['owner'],
 	'/team': ['owner'],
 	'/settings': ['owner'],
@@ -46,6 +51,8 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
 	'/api/sites/[id]/roof-plans': OFFICE,
 	'/api/sites/[id]/roof-plans/[version]': OFFICE,
 	'/api/team': ['owner'],
+	'/api/jobs/[id]': ['owner', 'sales', 'crew'],
+	'/api/jobs/[id]/log': ['owner', 'crew'],
 	'/tiles/tiles.json': 'public',
 	'/tiles/[z]/[x]/[y]': 'public'
 };
@@ -68,7 +75,7 @@ type Cell = {
 const routes = listRoutes();
 let server: TestServer;
 let prep: Prepared;
-const ids = { site: '', estimate: '', roofPlan: '' };
+const ids = { site: '', estimate: '', roofPlan: '', job: '' };
 const cookies = {} as Record<Role, string>;
 /** One session per cell for a user deactivated after signing in: the first use ends it. */
 const deactivatedSessions: string[] = [];
@@ -78,6 +85,8 @@ function fillIds(pattern: string): string {
 		.replace(/\/sites\/\[id\]/, `/sites/${ids.site}`)
 		.replace(/\/estimates\/\[id\]/, `/estimates/${ids.estimate}`)
 		.replace(/\/roof-plans\/\[id\]/, `/roof-plans/${ids.roofPlan}`)
+		.replace(/^\/crew\/\[id\]/, `/crew/${ids.job}`)
+		.replace(/^\/api\/jobs\/\[id\]/, `/api/jobs/${ids.job}`)
 		.replace('/roof-plans/[version]', '/roof-plans/latest')
 		.replace('/tiles/[z]/[x]/[y]', '/tiles/0/0/0.webp');
 	if (path.includes('[')) throw new Error(`Give ${pattern} a real sample id in fillIds.`);
@@ -208,6 +217,14 @@ beforeAll(async () => {
 	ids.estimate = (
 		await post('/api/estimates', { ...sceneRequest(site.houseId!), siteId: site.id, save: true })
 	).estimate.id;
+	// A job for the demo crew member, so the crew sheet and job routes have a real id.
+	const accepted = await acceptedEstimate(server.url, prep.ownerToken, site);
+	const crew = await crewIds(server.url, prep.ownerToken);
+	ids.job = await scheduleViaForm(server.url, cookies.owner, {
+		estimateId: accepted,
+		date: localToday(),
+		crewIds: [crew[DEMO.crew]]
+	});
 });
 afterAll(async () => server?.stop());
 

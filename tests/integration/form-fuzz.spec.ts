@@ -20,6 +20,8 @@ import {
 	type TestServer
 } from '../helpers/server';
 import { prepareDataDir, sceneRequest, type Prepared } from './api-helpers';
+import { acceptedEstimate, crewIds, scheduleViaForm } from '../helpers/jobs';
+import { localToday } from '../../src/lib/jobs/week';
 
 const RUNS = 40;
 
@@ -31,6 +33,10 @@ let estimatorCookie = '';
 /** A member invited for the fuzz, whose role, state and password the fuzz may change. */
 const target = { id: '', email: 'fuzz.target@harborpine.example', cookie: '', watch: '' };
 let estimateId = '';
+let crewCookie = '';
+/** An accepted estimate for the schedule action, a job to move and postpone, one to close. */
+const jobs = { schedulable: '', moving: '', movingRevision: 1, closing: '', crewId: '' };
+const today = localToday();
 let before: Record<string, number> = {};
 /** Writes the fuzz made on purpose (answers 2xx/3xx), per table. */
 const accepted: Record<string, number> = {};
@@ -230,6 +236,14 @@ const teamFingerprint = async () => {
 	return `${api.status} ${api.text}\n${page.status} ${page.text}`;
 };
 
+/** The moving job as the API shows it; remembers its revision so valid bodies stay current. */
+async function movingFingerprint(): Promise<string> {
+	const r = await getText(`/api/jobs/${jobs.moving}`, ownerCookie);
+	const rev = /"revision":(\d+)/.exec(r.text);
+	if (rev) jobs.movingRevision = Number(rev[1]);
+	return r.text;
+}
+
 const CASES: FuzzCase[] = [
 	{
 		route: '/sign-in',
@@ -366,6 +380,67 @@ const CASES: FuzzCase[] = [
 		fingerprint: async () => String((await getText('/api/me', target.watch)).status)
 	},
 	{
+		route: '/schedule',
+		action: 'schedule',
+		path: () => '/schedule?/schedule',
+		cookie: () => ownerCookie,
+		fields: ['estimateId', 'date', 'windowStart', 'windowEnd', 'crewIds'],
+		valid: () => ({
+			estimateId: jobs.schedulable,
+			date: today,
+			windowStart: '08:00',
+			windowEnd: '10:00',
+			crewIds: jobs.crewId
+		}),
+		fingerprint: async () =>
+			[
+				(await getText(`/api/estimates/${jobs.schedulable}`, ownerCookie)).text,
+				(await getText('/schedule/__data.json', ownerCookie)).text
+			].join('\n'),
+		grows: ['jobs']
+	},
+	{
+		route: '/schedule',
+		action: 'move',
+		path: () => '/schedule?/move',
+		cookie: () => ownerCookie,
+		fields: ['jobId', 'revision', 'date', 'windowStart', 'windowEnd', 'crewIds'],
+		valid: () => ({
+			jobId: jobs.moving,
+			revision: String(jobs.movingRevision),
+			date: today,
+			windowStart: '13:00',
+			windowEnd: '14:00',
+			crewIds: jobs.crewId
+		}),
+		fingerprint: movingFingerprint
+	},
+	{
+		route: '/schedule',
+		action: 'postpone',
+		path: () => '/schedule?/postpone',
+		cookie: () => ownerCookie,
+		fields: ['jobId', 'revision', 'reason', 'newDate'],
+		valid: () => ({
+			jobId: jobs.moving,
+			revision: String(jobs.movingRevision),
+			reason: 'Rain forecast all morning',
+			newDate: ''
+		}),
+		fingerprint: movingFingerprint
+	},
+	{
+		route: '/crew/[id]',
+		action: 'done',
+		path: () => `/crew/${jobs.closing}?/done`,
+		cookie: () => crewCookie,
+		fields: ['reason'],
+		valid: () => ({ reason: 'After photos sent to the office by text' }),
+		fingerprint: async () => (await getText(`/api/jobs/${jobs.closing}`, ownerCookie)).text,
+		// Closing writes the reason into the job's log, a new row for a job with none yet.
+		grows: ['job_logs']
+	},
+	{
 		route: '/estimates/[id]',
 		action: 'status',
 		path: () => `/estimates/${estimateId}?/status`,
@@ -411,6 +486,17 @@ beforeAll(async () => {
 	estimateId = (
 		await call('/api/estimates', { ...sceneRequest(site.houseId!), siteId: site.id, save: true })
 	).estimate.id;
+	// Jobs for the scheduling and crew-sheet actions.
+	crewCookie = await session(DEMO.crew);
+	jobs.crewId = (await crewIds(server.url, prep.ownerToken))[DEMO.crew];
+	jobs.schedulable = await acceptedEstimate(server.url, prep.ownerToken, site);
+	for (const key of ['moving', 'closing'] as const) {
+		jobs[key] = await scheduleViaForm(server.url, ownerCookie, {
+			estimateId: await acceptedEstimate(server.url, prep.ownerToken, site),
+			date: today,
+			crewIds: [jobs.crewId]
+		});
+	}
 	// Counted with the server stopped (PGlite opens a data directory in one process at a time).
 	await server.stop();
 	before = await tableCounts(dataDir);

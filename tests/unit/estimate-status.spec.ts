@@ -5,6 +5,7 @@
 import { describe, expect, it } from 'vitest';
 import {
 	ESTIMATE_STATUSES,
+	JOB_MOVES,
 	legalNext,
 	nextStatusesFor,
 	rolesForMove,
@@ -24,7 +25,7 @@ const EXPECTED: [EstimateStatus, EstimateStatus, Role[]][] = [
 	['sent', 'declined', ['owner', 'sales']],
 	['sent', 'expired', ['owner', 'sales']],
 	['accepted', 'scheduled', ['owner', 'sales']],
-	['scheduled', 'done', ['owner']],
+	['scheduled', 'done', ['owner', 'crew']],
 	['done', 'paid', ['owner']]
 ];
 
@@ -53,10 +54,16 @@ describe('estimate status moves', () => {
 		for (const end of ['paid', 'declined', 'expired'] as const) expect(legalNext(end)).toEqual([]);
 	});
 
-	it('gives crew no move at all, and the owner every legal one', () => {
+	it('gives crew only the close of a scheduled job, and the owner every legal one', () => {
 		for (const from of ESTIMATE_STATUSES) {
-			expect(nextStatusesFor(from, 'crew')).toEqual([]);
+			expect(nextStatusesFor(from, 'crew')).toEqual(from === 'scheduled' ? ['done'] : []);
 			expect(nextStatusesFor(from, 'owner').sort()).toEqual(legalNext(from).sort());
 		}
+	});
+});
+
+describe('moves that carry data of their own', () => {
+	it('sends scheduling and done to the screens that collect their data', () => {
+		expect(Object.keys(JOB_MOVES).sort()).toEqual(['done', 'scheduled']);
 	});
 });

@@ -164,8 +164,9 @@ function build() {
 					description:
 						'Allowed moves: draft → ready (owner, estimator); ready → sent (owner, sales), ready → ' +
 						'draft (owner, estimator), ready → expired; sent → accepted, declined or expired ' +
-						'(owner, sales); accepted → scheduled (owner, sales); scheduled → done and done → ' +
-						'paid (owner). Any other move is 409.',
+						'(owner, sales); done → paid (owner). Scheduling (accepted → scheduled) and closing a ' +
+						'job (scheduled → done) carry a date, crew and log, so they are made on the Schedule ' +
+						'page and the crew sheet, and this endpoint answers them 409. Any other move is 409.',
 					requestBody: {
 						required: true,
 						content: {

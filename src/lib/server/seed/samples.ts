@@ -1,11 +1,17 @@
-import { and, count, eq } from 'drizzle-orm';
+import { and, asc, count, eq } from 'drizzle-orm';
 import { house, planFacetsOf } from '../../../../geodata/scene';
 import type { Role } from '$lib/roles';
 import { savePlanSchema } from '$lib/schemas/roof-plan';
 import { getDb } from '../db';
-import { roofPlans, sites, users } from '../db/schema';
+import { estimates, roofPlans, sites, users } from '../db/schema';
+import type { EstimateResult } from '../../estimating/types';
 import { changeStatus, priceEstimateBody, type EstimateStatus } from '../services/estimates';
+import { markDone, saveLog, scheduleJob, type Caller } from '../services/jobs';
 import { savePlan } from '../services/roof-plans';
+import { checklistItems } from '../../jobs/checklist';
+import { addDays, localToday } from '../../jobs/week';
+import { hashPassword } from '../auth/password';
+import { DEMO_PASSWORD } from './demo';
 
 /**
  * Demo only: measured roof plans and estimates at various stages for some scene houses, so a
@@ -14,11 +20,28 @@ import { savePlan } from '../services/roof-plans';
 const SAMPLES: { houseId: string; status: EstimateStatus }[] = [
 	{ houseId: 'h04', status: 'sent' },
 	{ houseId: 'h05', status: 'draft' },
-	{ houseId: 'h06', status: 'ready' },
+	{ houseId: 'h06', status: 'done' },
 	{ houseId: 'h07', status: 'accepted' },
-	{ houseId: 'h09', status: 'accepted' },
+	{ houseId: 'h09', status: 'scheduled' },
 	{ houseId: 'h10', status: 'paid' }
 ];
+
+/** A second technician, so the week view has more than one crew row. */
+const SECOND_CREW = {
+	email: 'crew2@harborpine.example',
+	name: 'Ines Calloway',
+	role: 'crew' as const
+};
+
+/** The scheduled sample's site notes, shown on its crew sheet. */
+const SITE_NOTES = {
+	gateCode: 'Side gate code 4417',
+	pets: 'Two cats kept indoors; tortoise pen by the back fence',
+	waterSource: 'Tap on the north wall by the garage'
+};
+
+/** When each sample job is (was) done, counted from the seed's day. */
+const JOB_DAYS: Partial<Record<EstimateStatus, number>> = { scheduled: 0, done: -1, paid: -3 };
 
 const PATH: EstimateStatus[] = ['draft', 'ready', 'sent', 'accepted', 'scheduled', 'done', 'paid'];
 
@@ -27,11 +50,11 @@ export async function seedSamples(
 ): Promise<{ plans: number; estimates: number }> {
 	const db = await getDb();
 	const [owner] = await db
-		.select({ id: users.id, role: users.role })
+		.select({ id: users.id, role: users.role, name: users.name })
 		.from(users)
 		.where(and(eq(users.companyId, companyId), eq(users.role, 'owner')))
 		.limit(1);
-	const caller = { id: owner.id, companyId, role: 'owner' as Role };
+	const caller: Caller = { id: owner.id, companyId, role: 'owner' as Role, name: owner.name };
 	const made = { plans: 0, estimates: 0 };
 
 	for (const sample of SAMPLES) {
@@ -65,9 +88,61 @@ export async function seedSamples(
 		const done = await priceEstimateBody(caller, new TextEncoder().encode(JSON.stringify(body)));
 		if (!done.saved) throw new Error(`the sample estimate for ${sample.houseId} was not saved`);
 		made.estimates += 1;
-		for (const to of PATH.slice(1, PATH.indexOf(sample.status) + 1)) {
-			await changeStatus(caller, done.priced.estimate!.id, to);
+		const id = done.priced.estimate!.id;
+		const upTo = Math.min(PATH.indexOf(sample.status), PATH.indexOf('accepted'));
+		for (const to of PATH.slice(1, upTo + 1)) await changeStatus(caller, id, to);
+		if (PATH.indexOf(sample.status) > PATH.indexOf('accepted')) {
+			if (sample.status === 'scheduled') {
+				await db.update(sites).set(SITE_NOTES).where(eq(sites.id, site.id));
+			}
+			await sampleJob(caller, id, sample.status);
 		}
 	}
 	return made;
+}
+
+/** Schedules a sample through the jobs service, and for done and paid logs and closes it. */
+async function sampleJob(caller: Caller, estimateId: string, status: EstimateStatus) {
+	const db = await getDb();
+	await db
+		.insert(users)
+		.values({
+			...SECOND_CREW,
+			companyId: caller.companyId,
+			passwordHash: await hashPassword(DEMO_PASSWORD)
+		})
+		.onConflictDoNothing({ target: users.email });
+	const crew = await db
+		.select({ id: users.id })
+		.from(users)
+		.where(and(eq(users.companyId, caller.companyId), eq(users.role, 'crew')))
+		.orderBy(asc(users.email));
+	const date = addDays(localToday(), JOB_DAYS[status] ?? 0);
+	const { jobId } = await scheduleJob(caller, {
+		estimateId,
+		date,
+		windowStart: status === 'scheduled' ? '08:00' : '09:00',
+		windowEnd: status === 'scheduled' ? '10:00' : '11:00',
+		crewIds: status === 'scheduled' ? [crew[0].id] : crew.map((c) => c.id)
+	});
+	if (status === 'scheduled') return;
+	const [est] = await db
+		.select({ result: estimates.result })
+		.from(estimates)
+		.where(eq(estimates.id, estimateId));
+	const result = est.result as EstimateResult;
+	const items = checklistItems(
+		result.facets.map((f, i) => ({ id: f.id, n: i + 1, label: f.label }))
+	);
+	await saveLog(caller, jobId, {
+		checklist: Object.fromEntries(items.map((i) => [i.key, true])),
+		stockGalUsed: Math.round(result.chemistry.totalStockGal * 1.05 * 10) / 10,
+		surfactantOzUsed: Math.round(result.chemistry.totalSurfactantOz),
+		measuredStockPct: 11.8,
+		notes: 'North slope needed a second pass on the lichen by the chimney.',
+		clientUpdatedAt: new Date().toISOString()
+	});
+	// After photos come through the site-visit upload path; the sample closes with a reason.
+	await markDone(caller, jobId, 'Sample job: after photos were kept on the crew phone.');
+	if (status === 'paid') await changeStatus(caller, estimateId, 'paid');
 }

@@ -4,7 +4,7 @@ import type { EstimateInput, EstimateResult } from '../../estimating/types';
 import { Conflict, Forbidden, Invalid, NotFound } from './errors';
 import type { EstimateDetail, EstimateFilters, EstimateListItem } from '../../types/estimate';
 import { getDb } from '../db';
-import { legalNext, rolesForMove, type EstimateStatus } from '../../estimate-status';
+import { JOB_MOVES, legalNext, rolesForMove, type EstimateStatus } from '../../estimate-status';
 import { customers, estimates, sites, users } from '../db/schema';
 import { latestRateCard, NoRateCardError, rateCardById, type StoredRateCard } from './rate-cards';
 import type { CardRef, PlanRef, PriceOutcome, PriceTask } from '../pricing/price-request';
@@ -261,6 +261,8 @@ export async function changeStatus(
 			`Moving an estimate from ${from} to ${to} needs the ${roles.join(' or ')} role; you are ${caller.role}.`
 		);
 	}
+	const viaJob = JOB_MOVES[to];
+	if (viaJob) throw new Conflict(viaJob, [{ path: 'status', message: viaJob }]);
 	const db = await getDb();
 	const moved = await db
 		.update(estimates)
