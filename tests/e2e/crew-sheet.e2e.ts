@@ -1,0 +1,169 @@
+// The crew's day in Chromium against the built server: the owner schedules an accepted
+// estimate on the Schedule page, the crew opens its sheet at 390 px, the connection drops
+// (Playwright's offline mode), ticks and chemical used are kept on the phone through a
+// reload while offline, and are sent when the connection returns. The batch recipe the sheet
+// recomputes for a measured stock strength is checked against C1·V1 = C2·V2 (the dilution
+// equation; worked examples in docs/estimating-model.md §5), computed here independently.
+import type { BrowserContext, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { openBrowser, signInAs } from '../helpers/browser';
+import { acceptedEstimate, getJob, type JobReply } from '../helpers/jobs';
+import { DEMO, seededDataDir, startServer, type TestServer } from '../helpers/server';
+import { prepareDataDir, type Prepared } from '../integration/api-helpers';
+
+let server: TestServer;
+let prep: Prepared;
+let office: BrowserContext;
+let phone: BrowserContext;
+let estimateId = '';
+let jobId = '';
+let address = '';
+
+beforeAll(async () => {
+	const dir = seededDataDir('e2e-crew-sheet');
+	prep = await prepareDataDir(dir);
+	server = await startServer(dir);
+	const site = prep.sites.find((s) => s.houseId === 'h04')!;
+	address = site.address;
+	estimateId = await acceptedEstimate(server.url, prep.ownerToken, site);
+	office = await openBrowser({ width: 1280, height: 900 });
+	phone = await openBrowser({ width: 390, height: 844 });
+}, 120_000);
+afterAll(async () => {
+	await office?.close();
+	await phone?.close();
+	await server?.stop();
+});
+
+const checked = (page: Page, key: string) =>
+	page.locator(`[data-testid="tick"][data-key="${key}"]`).isChecked();
+
+async function syncState(page: Page, state: string) {
+	await page.waitForFunction(
+		(s) => document.querySelector('[data-testid="sync-state"]')?.getAttribute('data-state') === s,
+		state,
+		{ timeout: 30_000 }
+	);
+}
+
+describe('crew sheet', () => {
+	it('the owner schedules the accepted estimate on the Schedule page', async () => {
+		const page = office.pages()[0] ?? (await office.newPage());
+		await signInAs(page, server.url, DEMO.owner);
+		await page.goto(`${server.url}/schedule?estimate=${estimateId}`);
+		const select = page.locator('select[name="estimateId"]');
+		expect(await select.inputValue()).toBe(estimateId);
+		await page.getByRole('checkbox', { name: 'Jonah Reyes-Whitfield' }).check();
+		await page.getByRole('button', { name: 'Schedule', exact: true }).click();
+		await page.getByText(/^Scheduled\./).waitFor();
+		const card = page.getByTestId('week-job').filter({ hasText: address });
+		await card.waitFor();
+		jobId = (await card.getAttribute('data-job'))!;
+		expect(jobId).toMatch(/^[0-9a-f-]{36}$/);
+	});
+
+	it('opens at 390 px for the crew, keeps ticks through an offline reload, and sends them', async () => {
+		const page = phone.pages()[0] ?? (await phone.newPage());
+		await signInAs(page, server.url, DEMO.crew);
+		await page.goto(`${server.url}/crew`);
+		await page.getByTestId('sheet-link').filter({ hasText: address }).click();
+		await page.getByTestId('sheet-address').waitFor();
+		expect(await page.getByTestId('sheet-address').textContent()).toBe(address);
+		// Nothing wider than the phone: the sheet reads without sideways scrolling.
+		expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(
+			390
+		);
+		await expect(page.getByText('Safety cautions').isVisible()).resolves.toBe(true);
+
+		// The service worker is running and has kept this sheet.
+		await page.evaluate(() => navigator.serviceWorker.ready.then(() => undefined));
+		await page.waitForFunction(
+			() =>
+				caches
+					.open('crew-sheets')
+					.then((c) => c.match(location.pathname))
+					.then(Boolean),
+			undefined,
+			{ polling: 250, timeout: 30_000 }
+		);
+
+		await phone.setOffline(true);
+		// Wait until the emulation reaches every target (page and service worker): a request
+		// the worker passes through fails only from then on.
+		await page.waitForFunction(
+			() =>
+				fetch('/api/health', { cache: 'no-store' }).then(
+					() => false,
+					() => true
+				),
+			undefined,
+			{ polling: 200, timeout: 10_000 }
+		);
+		for (const key of ['prewet', 'cover', 'testspot']) {
+			await page.locator(`[data-testid="tick"][data-key="${key}"]`).check();
+		}
+		await page.getByTestId('stock-used').fill('7.5');
+		await page.getByTestId('surfactant-used').fill('60');
+		await syncState(page, 'pending');
+		expect(await page.getByTestId('sync-state').textContent()).toMatch(/Not yet sent/);
+		// Let the last keystrokes reach the phone's store before the reload.
+		await page.waitForTimeout(800);
+
+		await page.reload();
+		await page.getByTestId('sheet-address').waitFor();
+		expect(
+			await page.evaluate(() =>
+				fetch('/api/health', { cache: 'no-store' }).then(
+					() => 'reached',
+					() => 'failed'
+				)
+			),
+			'still offline after the reload'
+		).toBe('failed');
+		await page.waitForFunction(
+			() =>
+				(document.querySelector('[data-key="prewet"]') as HTMLInputElement | null)?.checked === true
+		);
+		for (const key of ['prewet', 'cover', 'testspot']) expect(await checked(page, key)).toBe(true);
+		expect(await checked(page, 'rinse')).toBe(false);
+		expect(await page.getByTestId('stock-used').inputValue()).toBe('7.5');
+		expect(await page.getByTestId('surfactant-used').inputValue()).toBe('60');
+		await syncState(page, 'pending');
+		// Nothing has reached the server yet.
+		expect((await getJob<JobReply>(server.url, prep.ownerToken, jobId)).log).toBeNull();
+
+		await phone.setOffline(false);
+		await syncState(page, 'sent');
+		const log = (await getJob<JobReply>(server.url, prep.ownerToken, jobId)).log!;
+		expect(log.checklist).toEqual({ prewet: true, cover: true, testspot: true });
+		expect(log.stockGalUsed).toBe(7.5);
+		expect(log.surfactantOzUsed).toBe(60);
+	});
+
+	it('recomputes the batches for the stock strength measured on the day (C1·V1 = C2·V2)', async () => {
+		const page = phone.pages()[0];
+		const est = (await (
+			await fetch(`${server.url}/api/estimates/${estimateId}`, {
+				headers: { authorization: `Bearer ${prep.ownerToken}` }
+			})
+		).json()) as { result: { chemistry: { batches: { strengthPct: number; mixGal: number }[] } } };
+		await page.getByTestId('measured-stock').fill('10');
+		await page.getByTestId('recipe-basis').filter({ hasText: 'measured at 10.0%' }).waitFor();
+		const shown = await page.getByTestId('batch-stock').allInnerTexts();
+		// V1 = C2·V2 / C1: gallons of 10% stock for each batch's strength and volume.
+		const want = est.result.chemistry.batches.map((b) =>
+			((b.strengthPct * b.mixGal) / 10).toFixed(1)
+		);
+		expect(shown).toEqual(want);
+		// The measured strength is part of the log and reaches the server like a tick.
+		await expect
+			.poll(
+				async () =>
+					(await getJob<JobReply>(server.url, prep.ownerToken, jobId)).log!.measuredStockPct,
+				{
+					timeout: 15_000
+				}
+			)
+			.toBe(10);
+	});
+});
