@@ -68,11 +68,12 @@ describe('embedded PGlite data directory', () => {
 		});
 
 		it('is seeded once with the demo', () => {
-			expect(first).toMatch(/4 users, \d+ sites/);
+			// The four demo roles and a second technician for the week view.
+			expect(first).toMatch(/5 users, \d+ sites/);
 			expect(first).toMatch(/1 rate cards, 6 roof plans, 6 estimates/);
 			expect(afterFirst.estimates).toBe(6);
 			expect(afterFirst.roof_plans).toBe(6);
-			expect(afterFirst.users).toBe(4);
+			expect(afterFirst.users).toBe(5);
 			expect(afterFirst.sites).toBeGreaterThanOrEqual(12);
 		});
 

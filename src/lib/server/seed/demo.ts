@@ -105,6 +105,7 @@ export async function seedDemo(opts: { samples?: boolean } = {}) {
 	if (opts.samples) {
 		const { seedSamples } = await import('./samples');
 		const made = await seedSamples(company.id);
+		created.users += made.users;
 		created.roofPlans += made.plans;
 		created.estimates += made.estimates;
 	}

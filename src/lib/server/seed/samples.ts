@@ -47,7 +47,7 @@ const PATH: EstimateStatus[] = ['draft', 'ready', 'sent', 'accepted', 'scheduled
 
 export async function seedSamples(
 	companyId: string
-): Promise<{ plans: number; estimates: number }> {
+): Promise<{ users: number; plans: number; estimates: number }> {
 	const db = await getDb();
 	const [owner] = await db
 		.select({ id: users.id, role: users.role, name: users.name })
@@ -55,7 +55,13 @@ export async function seedSamples(
 		.where(and(eq(users.companyId, companyId), eq(users.role, 'owner')))
 		.limit(1);
 	const caller: Caller = { id: owner.id, companyId, role: 'owner' as Role, name: owner.name };
-	const made = { plans: 0, estimates: 0 };
+	const made = { users: 0, plans: 0, estimates: 0 };
+	const added = await db
+		.insert(users)
+		.values({ ...SECOND_CREW, companyId, passwordHash: await hashPassword(DEMO_PASSWORD) })
+		.onConflictDoNothing({ target: users.email })
+		.returning({ id: users.id });
+	made.users += added.length;
 
 	for (const sample of SAMPLES) {
 		// A scene house's site is the one at its address; the schema knows nothing of the scene.
@@ -104,14 +110,6 @@ export async function seedSamples(
 /** Schedules a sample through the jobs service, and for done and paid logs and closes it. */
 async function sampleJob(caller: Caller, estimateId: string, status: EstimateStatus) {
 	const db = await getDb();
-	await db
-		.insert(users)
-		.values({
-			...SECOND_CREW,
-			companyId: caller.companyId,
-			passwordHash: await hashPassword(DEMO_PASSWORD)
-		})
-		.onConflictDoNothing({ target: users.email });
 	const crew = await db
 		.select({ id: users.id })
 		.from(users)
