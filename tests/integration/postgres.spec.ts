@@ -52,7 +52,8 @@ describe('PostgreSQL through DATABASE_URL', () => {
 			);
 			expect(new Set(cols.rows.map((r) => r.table_name)).size).toBeGreaterThanOrEqual(8);
 			const users = await client.query('select email, role from users order by email');
-			expect(users.rows).toHaveLength(4);
+			// The four demo roles and the second technician the samples add for the week view.
+			expect(users.rows).toHaveLength(5);
 			const migrations = await client.query(
 				'select count(*)::int as n from drizzle.__drizzle_migrations'
 			);
@@ -69,6 +70,6 @@ describe('PostgreSQL through DATABASE_URL', () => {
 		const res = await fetch(`${app.url}/api/team`, {
 			headers: { cookie: r.cookie!, accept: 'application/json' }
 		});
-		expect((await res.json()).members).toHaveLength(4);
+		expect((await res.json()).members).toHaveLength(5);
 	});
 });
