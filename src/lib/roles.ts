@@ -38,6 +38,11 @@ export const ACCESS: readonly { route: string; roles: Access }[] = [
 	{ route: '/sites/[id]/roof', roles: OFFICE },
 	{ route: '/estimates', roles: OFFICE },
 	{ route: '/estimates/[id]', roles: OFFICE },
+	{ route: '/estimates/[id]/proposal', roles: OFFICE },
+	// The customer's proposal: no account, the private link's token is the key.
+	{ route: '/p/[token]', roles: PUBLIC },
+	// The outbox, for the owner (its page answers 404 outside demo mode).
+	{ route: '/outbox', roles: ['owner'] },
 	{ route: '/crew', roles: ['owner', 'crew'] },
 	{ route: '/rates', roles: ['owner'] },
 	{ route: '/team', roles: ['owner'] },
@@ -56,6 +61,8 @@ export const ACCESS: readonly { route: string; roles: Access }[] = [
 	{ route: '/api/sites/[id]/roof-plans', roles: OFFICE },
 	{ route: '/api/sites/[id]/roof-plans/[version]', roles: OFFICE },
 	{ route: '/api/team', roles: ['owner'] },
+	// The payment service's events: no account, the signature on the body is the check.
+	{ route: '/api/payments/webhook', roles: PUBLIC },
 	// The bundled sample imagery: generated pictures of an invented town, no company data.
 	{ route: '/tiles/tiles.json', roles: PUBLIC },
 	{ route: '/tiles/[z]/[x]/[y]', roles: PUBLIC }
@@ -119,6 +126,7 @@ const NAV: readonly NavItem[] = [
 	{ href: '/crew', label: 'Crew sheets' },
 	{ href: '/rates', label: 'Rates' },
 	{ href: '/team', label: 'Team' },
+	{ href: '/outbox', label: 'Outbox' },
 	{ href: '/settings', label: 'Settings' }
 ];
 

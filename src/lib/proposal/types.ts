@@ -1,4 +1,5 @@
 /** A proposal as the customer reads it; frozen in `proposals.snapshot` when it is sent. */
+import type { ProposalStatus } from './status';
 
 /** One facet of the scope, in plain words, named by its label (never an internal id). */
 export type ScopeLine = { facet: string; text: string };
@@ -37,4 +38,46 @@ export type ProposalSnapshot = {
 	validUntil: string;
 	issuedOn: string;
 	version: number;
+};
+
+/** The office's view of one sent version. */
+export type DepositState =
+	| { state: 'none' }
+	| { state: 'open'; amountCents: number }
+	| { state: 'cancelled'; amountCents: number }
+	| { state: 'paid'; amountCents: number; paidAt: Date };
+
+export type ProposalVersion = {
+	id: string;
+	version: number;
+	status: ProposalStatus;
+	expired: boolean;
+	validUntil: string;
+	recipientEmail: string;
+	totalCents: number;
+	depositCents: number;
+	sentAt: Date;
+	revokedAt: Date | null;
+	answer: PublicAnswer | null;
+	mail: {
+		id: string;
+		status: 'queued' | 'sending' | 'sent' | 'failed' | 'dead';
+		attempts: number;
+		lastError: string | null;
+		nextAttemptAt: Date;
+		sentAt: Date | null;
+	}[];
+	deposit: DepositState;
+};
+
+export type PublicAnswer = {
+	decision: 'accepted' | 'declined';
+	fullName: string | null;
+	extras: TickedExtra[];
+	declineReason: string | null;
+	answeredAt: Date;
+	ipAddress: string | null;
+	proposalVersion: number;
+	totalCents: number;
+	depositCents: number;
 };

@@ -4,7 +4,13 @@ import type { RateCard } from '../../estimating/rate-card';
 import { formatCents } from '../../estimating/money';
 import { priceWithExtras } from '../../proposal/price';
 import { isPastValidity, type ProposalStatus } from '../../proposal/status';
-import type { ProposalSnapshot, TickedExtra } from '../../proposal/types';
+import type {
+	DepositState,
+	ProposalSnapshot,
+	ProposalVersion,
+	PublicAnswer,
+	TickedExtra
+} from '../../proposal/types';
 import type { Role } from '../../roles';
 import { getDb, type Db } from '../db';
 import {
@@ -43,40 +49,6 @@ const SENDERS: readonly Role[] = ['owner', 'sales'];
 
 type ProposalRow = typeof proposals.$inferSelect;
 type AnswerRow = typeof proposalAnswers.$inferSelect;
-
-export type DepositState =
-	| { state: 'none' }
-	| { state: 'open'; amountCents: number }
-	| { state: 'cancelled'; amountCents: number }
-	| { state: 'paid'; amountCents: number; paidAt: Date };
-
-export type ProposalVersion = {
-	id: string;
-	version: number;
-	status: ProposalStatus;
-	expired: boolean;
-	validUntil: string;
-	recipientEmail: string;
-	totalCents: number;
-	depositCents: number;
-	sentAt: Date;
-	revokedAt: Date | null;
-	answer: PublicAnswer | null;
-	mail: Pick<OutboxRow, 'id' | 'status' | 'attempts' | 'lastError' | 'nextAttemptAt' | 'sentAt'>[];
-	deposit: DepositState;
-};
-
-export type PublicAnswer = {
-	decision: 'accepted' | 'declined';
-	fullName: string | null;
-	extras: TickedExtra[];
-	declineReason: string | null;
-	answeredAt: Date;
-	ipAddress: string | null;
-	proposalVersion: number;
-	totalCents: number;
-	depositCents: number;
-};
 
 function publicAnswer(a: AnswerRow): PublicAnswer {
 	return {
