@@ -44,9 +44,9 @@ export function scopeLine(f: FacetResult, index: number): ScopeLine {
 
 /** A note for the customer, naming the facets it is about by label (never by id). */
 export function noteText(n: Note, names: ReadonlyMap<string, string>): string {
-	const msg = n.message.charAt(0).toUpperCase() + n.message.slice(1);
+	const msg = (n.message.charAt(0).toUpperCase() + n.message.slice(1)).replace(/\.$/, '');
 	const facets = (n.facetIds ?? []).map((id) => names.get(id) ?? 'one facet');
-	return facets.length ? `${msg} (${facets.join(', ')}).` : msg.endsWith('.') ? msg : `${msg}.`;
+	return facets.length ? `${msg} (${facets.join(', ')}).` : `${msg}.`;
 }
 
 export function facetNamesOf(r: EstimateResult): Map<string, string> {

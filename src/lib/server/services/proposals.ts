@@ -354,9 +354,7 @@ export async function sendProposal(
 		}
 		return { proposalId: p.id, version, created: true, mailId: queued.id };
 	});
-	const mailStatus = made.mailId
-		? await sendQueuedMail(db, getMailTransport(), made.mailId, { now })
-		: null;
+	const mailStatus = made.mailId ? await sendQueuedMail(db, getMailTransport(), made.mailId) : null;
 	return {
 		proposalId: made.proposalId,
 		version: made.version,
