@@ -67,6 +67,8 @@ export const acceptSchema = z.object({
 });
 
 export const declineSchema = z.object({
+	/** The decline button's own value: a body without it is not a decline. */
+	decision: z.literal('declined', { error: 'Press Decline to decline.' }),
 	reason: z
 		.string()
 		.trim()

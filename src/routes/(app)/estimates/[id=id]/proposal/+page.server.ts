@@ -75,7 +75,7 @@ export const actions: Actions = {
 		}
 	},
 	retryMail: async (event) => {
-		const user = requireRole(event, 'owner', 'sales');
+		const user = requireRole(event, 'owner', 'estimator', 'sales');
 		const parsed = mailIdSchema.safeParse(formObject(await event.request.formData()));
 		if (!parsed.success) return fail(400, { message: parsed.error.issues[0].message });
 		const db = await getDb();
