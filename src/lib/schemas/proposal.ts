@@ -27,12 +27,12 @@ export function sendProposalSchema(now = new Date()) {
 	const last = addDays(today, MAX_VALIDITY_DAYS);
 	return z.object({
 		to: z
-			.string()
+			.string({ error: 'Enter the customer’s e-mail address, like name@example.com.' })
 			.trim()
 			.max(254, 'An e-mail address has at most 254 characters.')
 			.pipe(z.email('Enter the customer’s e-mail address, like name@example.com.')),
 		validUntil: z
-			.string()
+			.string({ error: 'Enter a date as YYYY-MM-DD.' })
 			.trim()
 			.refine(isRealDate, 'Enter a date as YYYY-MM-DD.')
 			.refine((d) => d > today, 'The proposal must be good until a day after today at least.')
@@ -51,7 +51,7 @@ const EXTRA_CODE = /^[a-z_]{1,40}$/;
 /** The customer's acceptance. Only extra codes are read: their prices come from the server. */
 export const acceptSchema = z.object({
 	fullName: z
-		.string()
+		.string({ error: 'Type your full name to sign.' })
 		.trim()
 		.min(2, 'Type your full name to sign.')
 		.max(120, 'A name has at most 120 characters.')
@@ -70,7 +70,7 @@ export const declineSchema = z.object({
 	/** The decline button's own value: a body without it is not a decline. */
 	decision: z.literal('declined', { error: 'Press Decline to decline.' }),
 	reason: z
-		.string()
+		.string({ error: 'Write the reason as text.' })
 		.trim()
 		.max(1000, 'Keep the reason to 1000 characters.')
 		.refine(noNul, NUL_MESSAGE)

@@ -10,6 +10,8 @@ import type { Actions, PageServerLoad } from './$types';
 /**
  * The customer's page: no account, reached by the private link alone (a PUBLIC row in
  * $lib/roles). The link is the key, so it is kept out of referrers, caches and search engines.
+ * Set in the load only: after an action the same request runs the load, and a header may be
+ * set once.
  */
 function privateHeaders(event: RequestEvent) {
 	event.setHeaders({
@@ -46,7 +48,6 @@ function refusal(e: unknown) {
 
 export const actions: Actions = {
 	accept: async (event) => {
-		privateHeaders(event);
 		const fd = await event.request.formData();
 		const values = formObject(fd);
 		// Only the codes of the ticked extras are read; any price field in the body is ignored.
@@ -75,7 +76,6 @@ export const actions: Actions = {
 		}
 	},
 	decline: async (event) => {
-		privateHeaders(event);
 		const parsed = declineSchema.safeParse(formObject(await event.request.formData()));
 		if (!parsed.success) return fail(400, { errors: fieldErrors(parsed.error) });
 		try {
@@ -97,7 +97,6 @@ export const actions: Actions = {
 	 * (the site's form-action policy keeps form posts on this origin, so no cross-site redirect).
 	 */
 	pay: async (event) => {
-		privateHeaders(event);
 		try {
 			return { payUrl: await startDeposit(event.params.token, event.url.origin) };
 		} catch (e) {
