@@ -11,6 +11,8 @@ import { createWithToken, signIn } from '../helpers/http';
 import { listRoutes, type RouteInfo } from '../helpers/routes';
 import { DEMO, seededDataDir, startServer, type TestServer } from '../helpers/server';
 import { planFacetsOf } from '../../geodata/scene';
+import { startTestFakes, type TestFakes } from '../helpers/fakes';
+import { linkIn } from '../helpers/proposal';
 import { prepareDataDir, sceneRequest, type Prepared } from './api-helpers';
 
 const OFFICE: Role[] = ['owner', 'estimator', 'sales'];
@@ -28,6 +30,10 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
 	'/sites/[id]/roof': OFFICE,
 	'/estimates': OFFICE,
 	'/estimates/[id]': OFFICE,
+	'/estimates/[id]/proposal': OFFICE,
+	// The customer has no account: the private link is the key.
+	'/p/[token]': 'public',
+	'/outbox': ['owner'],
 	'/crew': ['owner', 'crew'],
 	'/rates': ['owner'],
 	'/team': ['owner'],
@@ -46,6 +52,8 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
 	'/api/sites/[id]/roof-plans': OFFICE,
 	'/api/sites/[id]/roof-plans/[version]': OFFICE,
 	'/api/team': ['owner'],
+	// The payment service has no account: the signature on the body is the check.
+	'/api/payments/webhook': 'public',
 	'/tiles/tiles.json': 'public',
 	'/tiles/[z]/[x]/[y]': 'public'
 };
@@ -68,7 +76,8 @@ type Cell = {
 const routes = listRoutes();
 let server: TestServer;
 let prep: Prepared;
-const ids = { site: '', estimate: '', roofPlan: '' };
+const ids = { site: '', estimate: '', roofPlan: '', token: '' };
+let fakes: TestFakes;
 const cookies = {} as Record<Role, string>;
 /** One session per cell for a user deactivated after signing in: the first use ends it. */
 const deactivatedSessions: string[] = [];
@@ -77,6 +86,7 @@ function fillIds(pattern: string): string {
 	const path = pattern
 		.replace(/\/sites\/\[id\]/, `/sites/${ids.site}`)
 		.replace(/\/estimates\/\[id\]/, `/estimates/${ids.estimate}`)
+		.replace('/p/[token]', `/p/${ids.token}`)
 		.replace(/\/roof-plans\/\[id\]/, `/roof-plans/${ids.roofPlan}`)
 		.replace('/roof-plans/[version]', '/roof-plans/latest')
 		.replace('/tiles/[z]/[x]/[y]', '/tiles/0/0/0.webp');
@@ -193,7 +203,15 @@ beforeAll(async () => {
 	} finally {
 		await db.close();
 	}
-	server = await startServer(dir, { ADDRESS_HEADER: 'x-forwarded-for', XFF_DEPTH: '1' });
+	// With the local mail and payment fakes: the Outbox is a demo-mode page, and the customer's
+	// page needs a real link, whose token only the e-mail carries.
+	fakes = await startTestFakes();
+	server = await startServer(dir, {
+		...fakes.env,
+		ADDRESS_HEADER: 'x-forwarded-for',
+		XFF_DEPTH: '1'
+	});
+	fakes.payments.setWebhookUrl(`${server.url}/api/payments/webhook`);
 	for (const role of ROLES) cookies[role] = await sessionCookie(role);
 	// The test seed has no plans or estimates: make one of each through the API.
 	const site = prep.sites.find((s) => s.houseId)!;
@@ -208,8 +226,46 @@ beforeAll(async () => {
 	ids.estimate = (
 		await post('/api/estimates', { ...sceneRequest(site.houseId!), siteId: site.id, save: true })
 	).estimate.id;
+	// Send its proposal and accept it, so the customer's page and its actions have a live link
+	// (an accepted one: a probe body can then neither accept nor decline it).
+	const form = (path: string, cookie: string | null, fields: Record<string, string>) =>
+		fetch(server.url + path, {
+			method: 'POST',
+			redirect: 'manual',
+			headers: {
+				'content-type': 'application/x-www-form-urlencoded',
+				origin: server.url,
+				'x-forwarded-for': '10.9.9.9',
+				...(cookie ? { cookie } : {})
+			},
+			body: new URLSearchParams(fields).toString()
+		}).then(async (r) => ({ status: r.status, text: await r.text() }));
+	const ready = await fetch(`${server.url}/api/estimates/${ids.estimate}`, {
+		method: 'PATCH',
+		headers: {
+			authorization: `Bearer ${prep.ownerToken}`,
+			'content-type': 'application/json'
+		},
+		body: JSON.stringify({ status: 'ready' })
+	});
+	if (ready.status !== 200) throw new Error(`ready: ${ready.status}`);
+	const validUntil = new Date(Date.now() + 30 * 86_400_000).toISOString().slice(0, 10);
+	const sent = await form(`/estimates/${ids.estimate}/proposal?/send`, cookies.sales, {
+		to: 'access.matrix@wrenfield.example',
+		validUntil
+	});
+	if (sent.status !== 200) throw new Error(`send: ${sent.status}`);
+	ids.token = linkIn(fakes.smtp.messages()[0].text).split('/p/')[1];
+	const accepted = await form(`/p/${ids.token}?/accept`, null, {
+		fullName: 'Marisol Quenby',
+		consent: 'yes'
+	});
+	if (accepted.status !== 200) throw new Error(`accept: ${accepted.status}`);
 });
-afterAll(async () => server?.stop());
+afterAll(async () => {
+	await server?.stop();
+	await fakes?.stop();
+});
 
 describe('the access matrix', () => {
 	it('has an expected answer for every route under src/routes, and no more', () => {
