@@ -38,6 +38,54 @@ afterAll(async () => {
 	await fakes?.stop();
 });
 
+/**
+ * Text whose contrast with the background behind it is under WCAG 2.2 SC 1.4.3 (AA): 4.5:1,
+ * or 3:1 for large text (18.66 px bold or 24 px). Relative luminance and contrast ratio as WCAG
+ * defines them (https://www.w3.org/TR/WCAG22/#dfn-relative-luminance, #dfn-contrast-ratio).
+ */
+async function contrastProblems(page: Page): Promise<string[]> {
+	return page.evaluate(() => {
+		const rgb = (c: string) => (c.match(/[\d.]+/g) ?? []).map(Number);
+		const lum = ([r, g, b]: number[]) => {
+			const f = (v: number) => {
+				const s = v / 255;
+				return s <= 0.04045 ? s / 12.92 : ((s + 0.055) / 1.055) ** 2.4;
+			};
+			return 0.2126 * f(r) + 0.7152 * f(g) + 0.0722 * f(b);
+		};
+		const bgOf = (el: Element | null): number[] => {
+			for (let e = el; e; e = e.parentElement) {
+				const c = rgb(getComputedStyle(e).backgroundColor);
+				if (c.length === 3 || (c.length === 4 && c[3] > 0)) return c.slice(0, 3);
+			}
+			return [255, 255, 255];
+		};
+		const out: string[] = [];
+		const walker = document.createTreeWalker(document.body, NodeFilter.SHOW_TEXT);
+		for (let n = walker.nextNode(); n; n = walker.nextNode()) {
+			const el = n.parentElement;
+			if (!el || !n.textContent?.trim()) continue;
+			const st = getComputedStyle(el);
+			if (st.visibility === 'hidden' || st.display === 'none' || el.closest('.sr-only')) continue;
+			// Only sRGB colours are measured; anything else is reported rather than guessed at.
+			if (!st.color.startsWith('rgb')) {
+				out.push(`unmeasured colour ${st.color}`);
+				continue;
+			}
+			if (!(el as HTMLElement).offsetParent && st.position !== 'fixed') continue;
+			const a = lum(rgb(st.color).slice(0, 3));
+			const b = lum(bgOf(el));
+			const ratio = (Math.max(a, b) + 0.05) / (Math.min(a, b) + 0.05);
+			const size = parseFloat(st.fontSize);
+			const large = size >= 24 || (size >= 18.66 && Number(st.fontWeight) >= 700);
+			if (ratio < (large ? 3 : 4.5)) {
+				out.push(`${ratio.toFixed(2)}:1 "${n.textContent.trim().slice(0, 40)}"`);
+			}
+		}
+		return out;
+	});
+}
+
 describe('proposal to deposit', () => {
 	it('sends, is accepted with an extra, and the deposit is paid', async () => {
 		// The office sends the proposal.
@@ -66,6 +114,12 @@ describe('proposal to deposit', () => {
 		expect(await phone.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(
 			390
 		);
+		expect(await contrastProblems(phone)).toEqual([]);
+		await phone.setViewportSize({ width: 320, height: 700 });
+		expect(await phone.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(
+			320
+		);
+		await phone.setViewportSize({ width: 390, height: 844 });
 		const gutter = phone.getByRole('checkbox', { name: /Gutter brightening/ });
 		const label = await phone.locator('label', { has: gutter }).innerText();
 		const extraCents = Math.round(Number(/\+\$([\d,.]+)/.exec(label)![1].replace(/,/g, '')) * 100);

@@ -414,3 +414,40 @@ describe('the deposit and the webhook', () => {
 		expect(await statusOf(est.h07.id)).toBe('accepted');
 	});
 });
+
+describe('the outbox retry loop', () => {
+	it('starts with the server and sends what is due, so a refused e-mail is not lost', async () => {
+		fakes.smtp.refuse('temporary');
+		const r = await post(`/estimates/${est.h03.id}/proposal?/send`, salesCookie, [
+			['to', 'h03.again@wrenfield.example'],
+			['validUntil', IN_30]
+		]);
+		fakes.smtp.refuse(null);
+		expect(r.status).toBe(200);
+		expect(r.text).toContain('could not be delivered yet');
+		// Make its next try due now, with the server stopped, then start it: nobody asks for a
+		// retry, so only the loop started in `init` can send it.
+		await server.stop();
+		const db = new PGlite(dir);
+		await db.waitReady;
+		const due = await db.query(
+			`update mail_outbox set next_attempt_at = now() - interval '1 second'
+			 where to_address = 'h03.again@wrenfield.example' and status = 'failed' returning id`
+		);
+		await db.close();
+		expect(due.rows).toHaveLength(1);
+		server = await startServer(dir, {
+			...fakes.env,
+			ADDRESS_HEADER: 'x-forwarded-for',
+			XFF_DEPTH: '1'
+		});
+		const deadline = Date.now() + 20_000;
+		while (
+			!fakes.smtp.messages().some((m) => m.to.includes('h03.again@wrenfield.example')) &&
+			Date.now() < deadline
+		) {
+			await new Promise((res) => setTimeout(res, 200));
+		}
+		expect(fakes.smtp.messages().flatMap((m) => m.to)).toContain('h03.again@wrenfield.example');
+	});
+});
