@@ -302,6 +302,20 @@ const CASES: FuzzCase[] = [
 		fingerprint: async () => (await getText('/settings/__data.json', ownerCookie)).text
 	},
 	{
+		route: '/settings',
+		action: 'contact',
+		path: () => '/settings?/contact',
+		cookie: () => ownerCookie,
+		fields: ['phone', 'email', 'postalAddress', 'licence'],
+		valid: () => ({
+			phone: '(555) 010-0142',
+			email: 'office@harborpine.example',
+			postalAddress: '18 Ropewalk Lane, Wrenfield',
+			licence: 'Insured'
+		}),
+		fingerprint: async () => (await getText('/settings/__data.json', ownerCookie)).text
+	},
+	{
 		route: '/team',
 		action: 'invite',
 		path: () => '/team?/invite',

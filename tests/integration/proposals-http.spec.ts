@@ -415,6 +415,35 @@ describe('the deposit and the webhook', () => {
 	});
 });
 
+describe('company details', () => {
+	it('prints new details on proposals sent after the change; a sent one keeps its own', async () => {
+		const bad = await post('/settings?/contact', ownerCookie, [
+			['phone', '(555) 010-0199'],
+			['email', 'not an address']
+		]);
+		expect(bad.status).toBe(400);
+		expect(bad.text).toContain('Enter an address like office@example.com');
+		expect((await get(`/estimates/${est.h02.id}/proposal`, salesCookie)).text).not.toContain(
+			'(555) 010-0199'
+		);
+		const ok = await post('/settings?/contact', ownerCookie, [
+			['phone', '(555) 010-0199'],
+			['email', 'bookings@harborpine.example'],
+			['postalAddress', '18 Ropewalk Lane, Wrenfield'],
+			['licence', '']
+		]);
+		expect(ok.status).toBe(200);
+		// h02 was sent before the change: its customer still reads the old number.
+		const sent = await get(new URL(linkOf('h02')).pathname);
+		expect(sent.text).toContain('(555) 010-0142');
+		expect(sent.text).not.toContain('(555) 010-0199');
+		const fresh = await readyEstimate(server.url, prep, 'h10');
+		const preview = await get(`/estimates/${fresh.id}/proposal`, salesCookie);
+		expect(preview.text).toContain('(555) 010-0199');
+		expect(preview.text).toContain('bookings@harborpine.example');
+	});
+});
+
 describe('the outbox retry loop', () => {
 	it('starts with the server and sends what is due, so a refused e-mail is not lost', async () => {
 		fakes.smtp.refuse('temporary');
