@@ -12,13 +12,19 @@ import { DataDirLockedError } from '$lib/server/db/lock';
 import { ConfigError } from '$lib/server/env';
 import { resolveCaller } from '$lib/server/auth/session';
 import { startPricing, stopPricing } from '$lib/server/pricing/pool';
+import { getMailTransport, startMailRetryLoop } from '$lib/server/mail';
 
 export const init: ServerInit = async () => {
+	let mail: ReturnType<typeof startMailRetryLoop> | undefined;
 	try {
 		// The data-directory lock first: a second server on a held directory stops here, before
 		// it has spawned a pricing thread that would only slow the server already running.
 		await getDb();
 		await startPricing();
+		// Messages the mail server did not take (or that were written while it was down) are
+		// tried again from the outbox until they go or are given up, and then shown as such.
+		mail = startMailRetryLoop({ db: getDb, transport: getMailTransport() });
+		void mail.runNow();
 	} catch (e) {
 		// sysexits.h: EX_CONFIG for a bad setting, EX_TEMPFAIL while another server holds the data.
 		const code = e instanceof ConfigError ? 78 : e instanceof DataDirLockedError ? 75 : null;
@@ -29,6 +35,7 @@ export const init: ServerInit = async () => {
 		process.exit(code);
 	}
 	process.once('sveltekit:shutdown', () => {
+		mail?.stop();
 		void stopPricing();
 		void closeDb();
 	});

@@ -39,6 +39,11 @@ export const ACCESS: readonly { route: string; roles: Access }[] = [
 	{ route: '/estimates', roles: OFFICE },
 	{ route: '/estimates/[id]', roles: OFFICE },
 	{ route: '/schedule', roles: ['owner', 'sales'] },
+	{ route: '/estimates/[id]/proposal', roles: OFFICE },
+	// The customer's proposal: no account, the private link's token is the key.
+	{ route: '/p/[token]', roles: PUBLIC },
+	// The outbox, for the owner (its page answers 404 outside demo mode).
+	{ route: '/outbox', roles: ['owner'] },
 	{ route: '/crew', roles: ['owner', 'crew'] },
 	// Crew open only the sheets of jobs they are on; the service answers 404 for the others.
 	{ route: '/crew/[id]', roles: ['owner', 'crew'] },
@@ -61,6 +66,8 @@ export const ACCESS: readonly { route: string; roles: Access }[] = [
 	{ route: '/api/team', roles: ['owner'] },
 	{ route: '/api/jobs/[id]', roles: ['owner', 'sales', 'crew'] },
 	{ route: '/api/jobs/[id]/log', roles: ['owner', 'crew'] },
+	// The payment service's events: no account, the signature on the body is the check.
+	{ route: '/api/payments/webhook', roles: PUBLIC },
 	// The bundled sample imagery: generated pictures of an invented town, no company data.
 	{ route: '/tiles/tiles.json', roles: PUBLIC },
 	{ route: '/tiles/[z]/[x]/[y]', roles: PUBLIC }
@@ -125,6 +132,7 @@ const NAV: readonly NavItem[] = [
 	{ href: '/crew', label: 'Crew sheets' },
 	{ href: '/rates', label: 'Rates' },
 	{ href: '/team', label: 'Team' },
+	{ href: '/outbox', label: 'Outbox' },
 	{ href: '/settings', label: 'Settings' }
 ];
 

@@ -15,9 +15,12 @@ import type { BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { planFacetsOf } from '../../geodata/scene';
 import { openBrowser, signInAs } from '../helpers/browser';
+import { startTestFakes, type TestFakes } from '../helpers/fakes';
+import { linkIn } from '../helpers/proposal';
 import { DEMO, seededDataDir, startServer, type TestServer } from '../helpers/server';
 
 let server: TestServer;
+let fakes: TestFakes;
 let ctx: BrowserContext;
 let page: Page;
 const dialogs: string[] = [];
@@ -54,12 +57,16 @@ const EXTRA_LABEL = tagged('Gutter brightening', 0);
 const MEMBER = tagged('Ines Calloway', 2);
 const TOKEN = tagged('Ledger sync', 3).slice(0, 80);
 const ATTRIBUTION = tagged('Wrenfield imagery', 0);
+const SIGNATURE = tagged('Ottoline Varga', 4);
+const COMPANY_LINE = tagged('Insured', 5);
 
 let siteId: string;
 let estimateId: string;
 
 beforeAll(async () => {
-	server = await startServer(seededDataDir('e2e-injection'));
+	// With the local mail fake: the proposal's private link only travels in its e-mail.
+	fakes = await startTestFakes();
+	server = await startServer(seededDataDir('e2e-injection'), fakes.env);
 	ctx = await openBrowser({ width: 1280, height: 900 });
 	// Runs before any page script, so a violation during start-up is caught too.
 	await ctx.addInitScript(() => {
@@ -79,6 +86,7 @@ beforeAll(async () => {
 afterAll(async () => {
 	await ctx?.close();
 	await server?.stop();
+	await fakes?.stop();
 });
 
 /** No payload ran, no dialog opened, no policy violation on the page now open. */
@@ -128,7 +136,7 @@ describe('payloads go in through the forms and the API', () => {
 	it('refuses a javascript: URL where a value could become a link or a tile source', async () => {
 		await visit(page, '/settings');
 		await page.getByLabel('XYZ URL template').fill(`javascript:${RUN}//{z}/{x}/{y}`);
-		await page.getByRole('button', { name: /save/i }).click();
+		await page.getByRole('button', { name: 'Save imagery source' }).click();
 		await page.getByText('Use an https:// URL that contains {z}, {x} and {y}').waitFor();
 		// The customer e-mail is an <input type=email> and checked by zod as an address, so a
 		// javascript: value cannot be stored there either; no other user value becomes a link.
@@ -261,6 +269,61 @@ describe('no payload runs where the text is shown', () => {
 		expect(await page.getByText(TOKEN, { exact: true }).count()).toBeGreaterThan(0);
 	});
 
+	it("the proposal, the customer's page with a payload signature, and the Outbox", async () => {
+		await visit(page, '/settings');
+		await page.getByLabel('Licence and insurance line').fill(COMPANY_LINE);
+		await page.getByRole('button', { name: 'Save company details' }).click();
+		await page.getByText('Proposals sent from now on carry these details.').waitFor();
+		const ready = await page.request.patch(`${server.url}/api/estimates/${estimateId}`, {
+			data: { status: 'ready' }
+		});
+		expect(ready.status(), await ready.text()).toBe(200);
+		await visit(page, `/estimates/${estimateId}/proposal`);
+		const doc = await page.getByTestId('proposal').textContent();
+		for (const text of [ADDRESS, CUSTOMER, FACET_LABEL(0), COMPANY_LINE])
+			expect(doc).toContain(text);
+		await expectClean(page, 'the proposal page');
+		await page.getByLabel('Customer’s e-mail').fill('ottoline.varga@wrenfield.example');
+		await page.getByRole('button', { name: 'Send proposal' }).click();
+		await page.getByText('Version 1 sent to').waitFor();
+		await expectClean(page, 'the proposal page after sending');
+		// The e-mail's HTML part carries the payloads escaped, as text.
+		const mail = fakes.smtp.messages().at(-1)!;
+		expect(mail.html).not.toContain(PAYLOADS[0]);
+		expect(mail.html).toContain('&lt;img src=x onerror=');
+
+		const customer = await openBrowser({ width: 390, height: 844 });
+		try {
+			await customer.addInitScript(() => {
+				const w = window as unknown as { __csp: string[] };
+				w.__csp = [];
+				document.addEventListener('securitypolicyviolation', (e) =>
+					w.__csp.push(`${e.effectiveDirective} ${e.blockedURI} ${e.sample}`)
+				);
+			});
+			const p = customer.pages()[0] ?? (await customer.newPage());
+			p.on('dialog', (d) => void d.dismiss().then(() => dialogs.push('dialog')));
+			await p.goto(linkIn(mail.text));
+			await expectClean(p, "the customer's page");
+			await p.getByLabel('Your full name, as your signature').fill(SIGNATURE);
+			await p.getByRole('checkbox', { name: /I agree to the work/ }).check();
+			await p.getByRole('button', { name: 'Accept proposal' }).click();
+			await p.getByTestId('answer-banner').waitFor();
+			expect(await p.getByTestId('answer-banner').textContent()).toContain(SIGNATURE);
+			await expectClean(p, "the customer's page after accepting");
+		} finally {
+			await customer.close();
+		}
+		await visit(page, `/estimates/${estimateId}/proposal`);
+		expect(await page.getByTestId('proposal-answer').textContent()).toContain(SIGNATURE);
+		await expectClean(page, 'the proposal page with the answer');
+		await visit(page, `/estimates/${estimateId}`);
+		await expectClean(page, 'the estimate page with the answer');
+		await visit(page, '/outbox');
+		expect(await page.getByTestId('outbox').textContent()).toContain(ADDRESS);
+		await expectClean(page, 'the Outbox');
+	});
+
 	it('an imagery attribution with a payload, on the Leaflet maps and in the editor', async () => {
 		await visit(page, '/settings');
 		// A reserved .example host: its tiles never load here, the attribution still shows.
@@ -268,7 +331,7 @@ describe('no payload runs where the text is shown', () => {
 			.getByLabel('XYZ URL template')
 			.fill('https://imagery.wrenfield.example/{z}/{x}/{y}.png');
 		await page.getByLabel('Attribution shown on the map').fill(ATTRIBUTION);
-		await page.getByRole('button', { name: /save/i }).click();
+		await page.getByRole('button', { name: 'Save imagery source' }).click();
 		await page.getByText(/saved/i).first().waitFor();
 		await expectClean(page, 'Settings after saving');
 

@@ -11,6 +11,8 @@ import { createWithToken, signIn } from '../helpers/http';
 import { listRoutes, type RouteInfo } from '../helpers/routes';
 import { DEMO, seededDataDir, startServer, type TestServer } from '../helpers/server';
 import { planFacetsOf } from '../../geodata/scene';
+import { startTestFakes, type TestFakes } from '../helpers/fakes';
+import { linkIn } from '../helpers/proposal';
 import { prepareDataDir, sceneRequest, type Prepared } from './api-helpers';
 import { acceptedEstimate, crewIds, scheduleViaForm } from '../helpers/jobs';
 import { localToday } from '../../src/lib/jobs/week';
@@ -31,6 +33,10 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
 	'/estimates': OFFICE,
 	'/estimates/[id]': OFFICE,
 	'/schedule': ['owner', 'sales'],
+	'/estimates/[id]/proposal': OFFICE,
+	// The customer has no account: the private link is the key.
+	'/p/[token]': 'public',
+	'/outbox': ['owner'],
 	'/crew': ['owner', 'crew'],
 	// The sheet of a job the demo crew member is on; other crew get 404 (tests/integration/jobs.spec.ts).
 	'/crew/[id]': ['owner', 'crew'],
@@ -53,6 +59,8 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
 	'/api/team': ['owner'],
 	'/api/jobs/[id]': ['owner', 'sales', 'crew'],
 	'/api/jobs/[id]/log': ['owner', 'crew'],
+	// The payment service has no account: the signature on the body is the check.
+	'/api/payments/webhook': 'public',
 	'/tiles/tiles.json': 'public',
 	'/tiles/[z]/[x]/[y]': 'public'
 };
@@ -75,7 +83,8 @@ type Cell = {
 const routes = listRoutes();
 let server: TestServer;
 let prep: Prepared;
-const ids = { site: '', estimate: '', roofPlan: '', job: '' };
+const ids = { site: '', estimate: '', roofPlan: '', job: '', token: '' };
+let fakes: TestFakes;
 const cookies = {} as Record<Role, string>;
 /** One session per cell for a user deactivated after signing in: the first use ends it. */
 const deactivatedSessions: string[] = [];
@@ -84,6 +93,7 @@ function fillIds(pattern: string): string {
 	const path = pattern
 		.replace(/\/sites\/\[id\]/, `/sites/${ids.site}`)
 		.replace(/\/estimates\/\[id\]/, `/estimates/${ids.estimate}`)
+		.replace('/p/[token]', `/p/${ids.token}`)
 		.replace(/\/roof-plans\/\[id\]/, `/roof-plans/${ids.roofPlan}`)
 		.replace(/^\/crew\/\[id\]/, `/crew/${ids.job}`)
 		.replace(/^\/api\/jobs\/\[id\]/, `/api/jobs/${ids.job}`)
@@ -202,7 +212,15 @@ beforeAll(async () => {
 	} finally {
 		await db.close();
 	}
-	server = await startServer(dir, { ADDRESS_HEADER: 'x-forwarded-for', XFF_DEPTH: '1' });
+	// With the local mail and payment fakes: the Outbox is a demo-mode page, and the customer's
+	// page needs a real link, whose token only the e-mail carries.
+	fakes = await startTestFakes();
+	server = await startServer(dir, {
+		...fakes.env,
+		ADDRESS_HEADER: 'x-forwarded-for',
+		XFF_DEPTH: '1'
+	});
+	fakes.payments.setWebhookUrl(`${server.url}/api/payments/webhook`);
 	for (const role of ROLES) cookies[role] = await sessionCookie(role);
 	// The test seed has no plans or estimates: make one of each through the API.
 	const site = prep.sites.find((s) => s.houseId)!;
@@ -218,15 +236,56 @@ beforeAll(async () => {
 		await post('/api/estimates', { ...sceneRequest(site.houseId!), siteId: site.id, save: true })
 	).estimate.id;
 	// A job for the demo crew member, so the crew sheet and job routes have a real id.
-	const accepted = await acceptedEstimate(server.url, prep.ownerToken, site);
+	const acceptedId = await acceptedEstimate(server.url, prep.ownerToken, site);
 	const crew = await crewIds(server.url, prep.ownerToken);
 	ids.job = await scheduleViaForm(server.url, cookies.owner, {
-		estimateId: accepted,
+		estimateId: acceptedId,
 		date: localToday(),
 		crewIds: [crew[DEMO.crew]]
 	});
+	// Send its proposal and accept it, so the customer's page and its actions have a live link
+	// (an accepted one: a probe body can then neither accept nor decline it).
+	const form = (path: string, cookie: string | null, fields: Record<string, string>) =>
+		fetch(server.url + path, {
+			method: 'POST',
+			redirect: 'manual',
+			headers: {
+				'content-type': 'application/x-www-form-urlencoded',
+				origin: server.url,
+				'x-forwarded-for': '10.9.9.9',
+				...(cookie ? { cookie } : {})
+			},
+			body: new URLSearchParams(fields).toString()
+		}).then(async (r) => ({ status: r.status, text: await r.text() }));
+	const ready = await fetch(`${server.url}/api/estimates/${ids.estimate}`, {
+		method: 'PATCH',
+		headers: {
+			authorization: `Bearer ${prep.ownerToken}`,
+			'content-type': 'application/json'
+		},
+		body: JSON.stringify({ status: 'ready' })
+	});
+	if (ready.status !== 200) throw new Error(`ready: ${ready.status}`);
+	const validUntil = new Date(Date.now() + 30 * 86_400_000).toISOString().slice(0, 10);
+	const sent = await form(`/estimates/${ids.estimate}/proposal?/send`, cookies.sales, {
+		to: 'access.matrix@wrenfield.example',
+		validUntil
+	});
+	if (sent.status !== 200) throw new Error(`send: ${sent.status}`);
+	ids.token = linkIn(
+		fakes.smtp.messages().find((m) => m.to.includes('access.matrix@wrenfield.example'))?.text ??
+			null
+	).split('/p/')[1];
+	const accepted = await form(`/p/${ids.token}?/accept`, null, {
+		fullName: 'Marisol Quenby',
+		consent: 'yes'
+	});
+	if (accepted.status !== 200) throw new Error(`accept: ${accepted.status}`);
 });
-afterAll(async () => server?.stop());
+afterAll(async () => {
+	await server?.stop();
+	await fakes?.stop();
+});
 
 describe('the access matrix', () => {
 	it('has an expected answer for every route under src/routes, and no more', () => {

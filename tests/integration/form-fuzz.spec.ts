@@ -19,6 +19,8 @@ import {
 	startServer,
 	type TestServer
 } from '../helpers/server';
+import { startTestFakes, type TestFakes } from '../helpers/fakes';
+import { linkIn, readyEstimate } from '../helpers/proposal';
 import { prepareDataDir, sceneRequest, type Prepared } from './api-helpers';
 import { acceptedEstimate, crewIds, scheduleViaForm } from '../helpers/jobs';
 import { localToday } from '../../src/lib/jobs/week';
@@ -37,10 +39,19 @@ let crewCookie = '';
 /** An accepted estimate for the schedule action, a job to move and postpone, one to close. */
 const jobs = { schedulable: '', moving: '', movingRevision: 1, closing: '', crewId: '' };
 const today = localToday();
+let salesCookie = '';
+let fakes: TestFakes;
+/** Ready estimates and live proposal links (tokens) for the proposal and customer actions. */
+const prop = { sendEstimate: '', acceptToken: '', declineToken: '', paid: false };
+const validUntil = new Date(Date.now() + 30 * 86_400_000).toISOString().slice(0, 10);
+const customerData = (token: string) => getText(`/p/${token}/__data.json`, '');
 let before: Record<string, number> = {};
 /** Writes the fuzz made on purpose (answers 2xx/3xx), per table. */
 const accepted: Record<string, number> = {};
 let client = 0;
+
+/** With the local mail and payment fakes: the Outbox and the deposit need them. */
+const serverEnv = () => ({ ...fakes.env, ADDRESS_HEADER: 'x-forwarded-for', XFF_DEPTH: '1' });
 
 const nextAddress = () => `10.7.${(++client >> 8) & 255}.${client & 255}`;
 
@@ -221,8 +232,8 @@ type FuzzCase = {
 	valid: () => Record<string, string>;
 	/** Read-only view of what the action writes; it must not change on a refusal. */
 	fingerprint: () => Promise<string>;
-	/** Tables a successful answer may add rows to. */
-	grows?: string[];
+	/** Tables a successful answer adds a row to (a function when only some successes do). */
+	grows?: string[] | ((r: Awaited<ReturnType<typeof post>>) => string[]);
 	/** Extra check on each answer. */
 	check?: (r: Awaited<ReturnType<typeof post>>) => string | null;
 	runs?: number;
@@ -302,6 +313,20 @@ const CASES: FuzzCase[] = [
 		cookie: () => ownerCookie,
 		fields: ['template', 'attribution'],
 		valid: () => ({ template: '', attribution: '' }),
+		fingerprint: async () => (await getText('/settings/__data.json', ownerCookie)).text
+	},
+	{
+		route: '/settings',
+		action: 'contact',
+		path: () => '/settings?/contact',
+		cookie: () => ownerCookie,
+		fields: ['phone', 'email', 'postalAddress', 'licence'],
+		valid: () => ({
+			phone: '(555) 010-0142',
+			email: 'office@harborpine.example',
+			postalAddress: '18 Ropewalk Lane, Wrenfield',
+			licence: 'Insured'
+		}),
 		fingerprint: async () => (await getText('/settings/__data.json', ownerCookie)).text
 	},
 	{
@@ -448,13 +473,92 @@ const CASES: FuzzCase[] = [
 		fields: ['status'],
 		valid: () => ({ status: 'sent' }),
 		fingerprint: async () => (await getText(`/api/estimates/${estimateId}`, ownerCookie)).text
+	},
+	{
+		route: '/estimates/[id]/proposal',
+		action: 'send',
+		path: () => `/estimates/${prop.sendEstimate}/proposal?/send`,
+		cookie: () => salesCookie,
+		fields: ['to', 'validUntil'],
+		valid: () => ({ to: 'fuzz.customer@wrenfield.example', validUntil }),
+		fingerprint: async () =>
+			(await getText(`/estimates/${prop.sendEstimate}/proposal/__data.json`, ownerCookie)).text,
+		// The first send makes the proposal and its e-mail; later ones send nothing new.
+		grows: (r) => (r.text.includes('Version 1 sent to') ? ['proposals', 'mail_outbox'] : [])
+	},
+	{
+		route: '/estimates/[id]/proposal',
+		action: 'revoke',
+		path: () => `/estimates/${prop.sendEstimate}/proposal?/revoke`,
+		cookie: () => salesCookie,
+		fields: ['proposalId'],
+		valid: () => ({ proposalId: '00000000-0000-4000-8000-000000000000' }),
+		fingerprint: async () =>
+			(await getText(`/estimates/${prop.sendEstimate}/proposal/__data.json`, ownerCookie)).text
+	},
+	{
+		route: '/estimates/[id]/proposal',
+		action: 'retryMail',
+		path: () => `/estimates/${prop.sendEstimate}/proposal?/retryMail`,
+		cookie: () => salesCookie,
+		fields: ['mailId'],
+		valid: () => ({ mailId: '00000000-0000-4000-8000-000000000000' }),
+		fingerprint: async () =>
+			(await getText(`/estimates/${prop.sendEstimate}/proposal/__data.json`, ownerCookie)).text
+	},
+	{
+		route: '/outbox',
+		action: 'retry',
+		path: () => '/outbox?/retry',
+		cookie: () => ownerCookie,
+		fields: ['mailId'],
+		valid: () => ({ mailId: '00000000-0000-4000-8000-000000000000' }),
+		fingerprint: async () => (await getText('/outbox/__data.json', ownerCookie)).text
+	},
+	{
+		route: '/p/[token]',
+		action: 'accept',
+		path: () => `/p/${prop.acceptToken}?/accept`,
+		cookie: () => undefined,
+		fields: ['fullName', 'consent', 'extras', 'priceCents', 'totalCents'],
+		valid: () => ({
+			fullName: 'Marisol Quenby',
+			consent: 'yes',
+			extras: 'gutter_brightening',
+			priceCents: '1',
+			totalCents: '1'
+		}),
+		fingerprint: async () => (await customerData(prop.acceptToken)).text,
+		grows: ['proposal_answers']
+	},
+	{
+		route: '/p/[token]',
+		action: 'decline',
+		path: () => `/p/${prop.declineToken}?/decline`,
+		cookie: () => undefined,
+		fields: ['decision', 'reason'],
+		valid: () => ({ decision: 'declined', reason: 'Going with a neighbour' }),
+		fingerprint: async () => (await customerData(prop.declineToken)).text,
+		grows: ['proposal_answers']
+	},
+	{
+		route: '/p/[token]',
+		action: 'pay',
+		path: () => `/p/${prop.acceptToken}?/pay`,
+		cookie: () => undefined,
+		fields: ['amountCents', 'currency'],
+		valid: () => ({ amountCents: '1', currency: 'usd' }),
+		fingerprint: async () => (await customerData(prop.acceptToken)).text,
+		// The first starts the deposit checkout; later ones return the same open session.
+		grows: () => (prop.paid ? [] : ((prop.paid = true), ['deposit_checkouts']))
 	}
 ];
 
 beforeAll(async () => {
 	dataDir = seededDataDir('form-fuzz');
 	prep = await prepareDataDir(dataDir);
-	server = await startServer(dataDir, { ADDRESS_HEADER: 'x-forwarded-for', XFF_DEPTH: '1' });
+	fakes = await startTestFakes();
+	server = await startServer(dataDir, serverEnv());
 	ownerCookie = await session(DEMO.owner);
 	estimatorCookie = await session(DEMO.estimator);
 	const invite = await post('/team?/invite', ownerCookie, {
@@ -497,12 +601,37 @@ beforeAll(async () => {
 			crewIds: [jobs.crewId]
 		});
 	}
+	// Proposals: one ready estimate to send, and two sent ones whose links the customer's
+	// actions use.
+	salesCookie = await session(DEMO.sales);
+	prop.sendEstimate = (await readyEstimate(server.url, prep, 'h02')).id;
+	const tokenFor = async (house: string) => {
+		const id = (await readyEstimate(server.url, prep, house)).id;
+		const r = await post(`/estimates/${id}/proposal?/send`, salesCookie, {
+			encoding: 'urlencoded',
+			fields: Object.entries({ to: `${house}@wrenfield.example`, validUntil }).map(([k, v]) => [
+				k,
+				{ kind: 'text', v }
+			])
+		});
+		if (r.status !== 200) throw new Error(`send: ${r.status}`);
+		const to = `${house}@wrenfield.example`;
+		return linkIn(fakes.smtp.messages().find((m) => m.to.includes(to))?.text ?? null).split(
+			'/p/'
+		)[1];
+	};
+	prop.acceptToken = await tokenFor('h03');
+	prop.declineToken = await tokenFor('h04');
 	// Counted with the server stopped (PGlite opens a data directory in one process at a time).
 	await server.stop();
 	before = await tableCounts(dataDir);
-	server = await startServer(dataDir, { ADDRESS_HEADER: 'x-forwarded-for', XFF_DEPTH: '1' });
+	server = await startServer(dataDir, serverEnv());
+	fakes.payments.setWebhookUrl(`${server.url}/api/payments/webhook`);
 }, 300_000);
-afterAll(async () => server?.stop());
+afterAll(async () => {
+	await server?.stop();
+	await fakes?.stop();
+});
 
 describe('form actions under fuzz', () => {
 	it('covers every form action under src/routes', () => {
@@ -526,7 +655,8 @@ describe('form actions under fuzz', () => {
 					if (r.status >= 400) {
 						expect(await c.fingerprint()).toBe(was);
 					} else {
-						for (const t of c.grows ?? []) accepted[t] = (accepted[t] ?? 0) + 1;
+						const grows = typeof c.grows === 'function' ? c.grows(r) : (c.grows ?? []);
+						for (const t of grows) accepted[t] = (accepted[t] ?? 0) + 1;
 					}
 				}),
 				{ numRuns: c.runs ?? RUNS }
@@ -580,6 +710,18 @@ describe('form actions under fuzz', () => {
 				ownerCookie,
 				{ ...cardToForm(DEFAULT_RATE_CARD), note: nul },
 				async () => (await getText('/api/rate-cards', ownerCookie)).text
+			],
+			[
+				`/p/${prop.acceptToken}?/accept`,
+				'',
+				{ fullName: nul, consent: 'yes' },
+				async () => (await customerData(prop.acceptToken)).text
+			],
+			[
+				`/p/${prop.declineToken}?/decline`,
+				'',
+				{ decision: 'declined', reason: nul },
+				async () => (await customerData(prop.declineToken)).text
 			]
 		];
 		for (const [path, cookie, body, fingerprint] of tries) {
@@ -621,6 +763,6 @@ describe('form actions under fuzz', () => {
 		delete expected.sessions;
 		delete after.sessions;
 		expect(after).toEqual(expected);
-		server = await startServer(dataDir, { ADDRESS_HEADER: 'x-forwarded-for', XFF_DEPTH: '1' });
+		server = await startServer(dataDir, serverEnv());
 	});
 });

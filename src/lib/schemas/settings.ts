@@ -21,3 +21,29 @@ export const imagerySchema = z.object({
 		.refine(noNul, NUL_MESSAGE)
 		.transform((v) => v || null)
 });
+
+const optionalText = (max: number, what: string) =>
+	z
+		.string({ error: `Write the ${what} as text.` })
+		.trim()
+		.max(max, `Keep the ${what} under ${max} characters.`)
+		.refine(noNul, NUL_MESSAGE)
+		.transform((v) => v || null)
+		.default(null);
+
+/** The company's details printed on proposals; each may be left blank. */
+export const companyContactSchema = z.object({
+	phone: optionalText(40, 'phone number'),
+	email: z
+		.string({ error: 'Write the e-mail address as text.' })
+		.trim()
+		.max(254, 'An e-mail address has at most 254 characters.')
+		.refine(
+			(v) => v === '' || z.email().safeParse(v).success,
+			'Enter an address like office@example.com, or leave it blank.'
+		)
+		.transform((v) => v || null)
+		.default(null),
+	postalAddress: optionalText(200, 'address'),
+	licence: optionalText(200, 'licence and insurance line')
+});

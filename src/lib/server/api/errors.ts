@@ -1,6 +1,6 @@
 import { json } from '@sveltejs/kit';
 import type { z } from 'zod';
-import { Conflict, DomainError, Forbidden, Invalid, NotFound } from '../services/errors';
+import { Conflict, DomainError, Forbidden, Gone, Invalid, NotFound } from '../services/errors';
 import { invalidRefusal, issuesOf, type ApiIssue, type Refusal } from './refusal';
 
 export { type ApiIssue } from './refusal';
@@ -46,6 +46,7 @@ export function statusOf(e: DomainError): number {
 	if (e instanceof Forbidden) return 403;
 	if (e instanceof NotFound) return 404;
 	if (e instanceof Conflict) return 409;
+	if (e instanceof Gone) return 410;
 	return 400;
 }
 

@@ -13,4 +13,4 @@ export {
 } from './outbox';
 export { buildProposalEmail, type BuiltEmail, type ProposalEmailInput } from './proposal-email';
 export { readFakeInbox, type FakeMail } from './fake-inbox';
-export { createMailTransport, type MailTransport } from './transport';
+export { createMailTransport, getMailTransport, type MailTransport } from './transport';

@@ -21,16 +21,19 @@ export type OutboxMessage = {
 
 export type OutboxRow = typeof mailOutbox.$inferSelect;
 
+/** A transaction of Db: enqueueing with the row that the message is about commits both or neither. */
+export type DbTx = Parameters<Parameters<Db['transaction']>[0]>[0];
+
 /** A try that ends in "sending" and never reports back is picked up again after this. */
 const LEASE_MS = 5 * 60_000;
 const DUE: MailStatus[] = ['queued', 'failed', 'sending'];
 
 /**
- * Writes the message to the outbox (nothing is sent yet). A second call with the same key
+ * Writes the message to the outbox (nothing is sent yet), in `db` or inside a transaction. A second call with the same key
  * returns the first message untouched, with `created: false`.
  */
 export async function enqueueMail(
-	db: Db,
+	db: Db | DbTx,
 	m: OutboxMessage,
 	now = new Date()
 ): Promise<{ id: string; created: boolean; status: MailStatus }> {

@@ -17,3 +17,11 @@ export function createMailTransport(url: string | null = env.smtpUrl): MailTrans
 		socketTimeout: 30_000
 	});
 }
+
+let shared: MailTransport | null | undefined;
+
+/** One transport for the process (the send action and the retry loop share its pool). */
+export function getMailTransport(): MailTransport | null {
+	if (shared === undefined) shared = createMailTransport();
+	return shared;
+}

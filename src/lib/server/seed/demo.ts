@@ -11,6 +11,14 @@ import { seedRateCard } from './rate-card';
 export const DEMO_COMPANY = 'Harbor & Pine Exterior Care';
 export const DEMO_PASSWORD = 'pitch-demo-2026';
 
+/** Printed on the demo's proposals; 555-01xx numbers are reserved for fiction. */
+const DEMO_CONTACT = {
+	phone: '(555) 010-0142',
+	email: 'office@harborpine.example',
+	postalAddress: '18 Ropewalk Lane, Wrenfield',
+	licence: 'Insured · applicator licence WF-0417 (invented for the demo)'
+};
+
 export const DEMO_USERS: { email: string; name: string; role: Role }[] = [
 	{ email: 'owner@harborpine.example', name: 'Maren Holloway', role: 'owner' },
 	{ email: 'estimator@harborpine.example', name: 'Theo Lindqvist', role: 'estimator' },
@@ -48,6 +56,12 @@ const EXTRA_SITES: SceneHouse[] = [
 	}
 ];
 
+/** An invented address under the reserved .example domain, from the customer's first two words. */
+function demoEmail(name: string): string {
+	const words = name.toLowerCase().match(/[a-z]+/g) ?? ['customer'];
+	return `${words.slice(0, 2).join('.')}@wrenfield.example`;
+}
+
 function sceneHouses(): SceneHouse[] {
 	const file = path.resolve('geodata/scene.geojson');
 	if (!fs.existsSync(file)) return [];
@@ -65,7 +79,14 @@ export async function seedDemo(opts: { samples?: boolean } = {}) {
 	const created = { users: 0, sites: 0, rateCards: 0, roofPlans: 0, estimates: 0 };
 
 	let [company] = await db.select().from(companies).where(eq(companies.name, DEMO_COMPANY));
-	if (!company) [company] = await db.insert(companies).values({ name: DEMO_COMPANY }).returning();
+	if (!company) {
+		[company] = await db
+			.insert(companies)
+			.values({ name: DEMO_COMPANY, ...DEMO_CONTACT })
+			.returning();
+	} else if (company.phone === null) {
+		await db.update(companies).set(DEMO_CONTACT).where(eq(companies.id, company.id));
+	}
 
 	const passwordHash = await hashPassword(DEMO_PASSWORD);
 	for (const u of DEMO_USERS) {
@@ -86,7 +107,7 @@ export async function seedDemo(opts: { samples?: boolean } = {}) {
 		await db.transaction(async (tx) => {
 			const [c] = await tx
 				.insert(customers)
-				.values({ companyId: company.id, name: h.customer })
+				.values({ companyId: company.id, name: h.customer, email: demoEmail(h.customer) })
 				.returning({ id: customers.id });
 			await tx.insert(sites).values({
 				companyId: company.id,

@@ -19,3 +19,17 @@ export async function setImagery(
 		.set({ imageryUrlTemplate: template, imageryAttribution: attribution })
 		.where(eq(companies.id, companyId));
 }
+
+/** The details proposals print; a proposal already sent keeps the ones it was sent with. */
+export async function setContact(
+	companyId: string,
+	c: {
+		phone: string | null;
+		email: string | null;
+		postalAddress: string | null;
+		licence: string | null;
+	}
+) {
+	const db = await getDb();
+	await db.update(companies).set(c).where(eq(companies.id, companyId));
+}

@@ -38,6 +38,9 @@ export class Invalid extends DomainError {
 /** The request is sound but the data's current state does not allow it. */
 export class Conflict extends DomainError {}
 
+/** The thing existed but is over for good (a proposal past its validity date). */
+export class Gone extends DomainError {}
+
 /** The caller's role may not do this. */
 export class Forbidden extends DomainError {}
 

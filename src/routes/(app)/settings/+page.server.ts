@@ -1,14 +1,23 @@
 import { fail } from '@sveltejs/kit';
 import { fieldErrors, formObject } from '$lib/schemas/form';
-import { imagerySchema } from '$lib/schemas/settings';
+import { companyContactSchema, imagerySchema } from '$lib/schemas/settings';
 import { requireRole } from '$lib/server/auth/guard';
-import { getCompany, setImagery } from '$lib/server/services/company';
+import { getCompany, setContact, setImagery } from '$lib/server/services/company';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
 	const user = requireRole(event, 'owner');
 	const c = await getCompany(user.companyId);
-	return { template: c?.imageryUrlTemplate ?? '', attribution: c?.imageryAttribution ?? '' };
+	return {
+		template: c?.imageryUrlTemplate ?? '',
+		attribution: c?.imageryAttribution ?? '',
+		contact: {
+			phone: c?.phone ?? '',
+			email: c?.email ?? '',
+			postalAddress: c?.postalAddress ?? '',
+			licence: c?.licence ?? ''
+		}
+	};
 };
 
 export const actions: Actions = {
@@ -19,5 +28,15 @@ export const actions: Actions = {
 		if (!parsed.success) return fail(400, { values, errors: fieldErrors(parsed.error) });
 		await setImagery(user.companyId, parsed.data.template, parsed.data.attribution);
 		return { done: parsed.data.template ? 'Imagery source saved.' : 'Using the sample imagery.' };
+	},
+	contact: async (event) => {
+		const user = requireRole(event, 'owner');
+		const values = formObject(await event.request.formData());
+		const parsed = companyContactSchema.safeParse(values);
+		if (!parsed.success) {
+			return fail(400, { contact: { values, errors: fieldErrors(parsed.error) } });
+		}
+		await setContact(user.companyId, parsed.data);
+		return { contact: { done: 'Saved. Proposals sent from now on carry these details.' } };
 	}
 };

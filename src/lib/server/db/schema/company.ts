@@ -7,5 +7,11 @@ export const companies = pgTable('companies', {
 	/** XYZ template of a licensed imagery provider; null means the bundled sample imagery. */
 	imageryUrlTemplate: text('imagery_url_template'),
 	imageryAttribution: text('imagery_attribution'),
+	/** Contact details printed on proposals; null when not given. */
+	phone: text('phone'),
+	email: text('email'),
+	postalAddress: text('postal_address'),
+	/** Licence and insurance line, e.g. a state applicator licence number. */
+	licence: text('licence'),
 	...timestamps
 });

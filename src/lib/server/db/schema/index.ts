@@ -6,3 +6,4 @@ export * from './mail';
 export * from './payments';
 export * from './invoices';
 export * from './jobs';
+export * from './proposals';

@@ -6,13 +6,26 @@ import { estimatePatchSchema } from '$lib/schemas/estimates-api';
 import { requireRole } from '$lib/server/auth/guard';
 import { nextStatusesFor } from '$lib/estimate-status';
 import { changeStatus, getEstimate } from '$lib/server/services/estimates';
+import { proposalsOf } from '$lib/server/services/proposals';
+import { defaultValidUntil } from '$lib/schemas/proposal';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
 	const user = requireRole(event, 'owner', 'estimator', 'sales');
 	const estimate = await getEstimate(user.companyId, event.params.id);
 	if (!estimate) error(404, 'No such estimate.');
-	return { estimate, nextStatuses: nextStatusesFor(estimate.status, user.role) };
+	// An estimate without a site has no customer, so no proposal.
+	const proposal = estimate.site
+		? await proposalsOf(user.companyId, estimate.id, {
+				validUntil: defaultValidUntil(),
+				salesperson: user.name
+			})
+		: null;
+	return {
+		estimate,
+		nextStatuses: nextStatusesFor(estimate.status, user.role),
+		proposals: proposal?.versions ?? null
+	};
 };
 
 export const actions: Actions = {
