@@ -38,6 +38,7 @@ export const ACCESS: readonly { route: string; roles: Access }[] = [
 	{ route: '/sites/[id]/roof', roles: OFFICE },
 	{ route: '/estimates', roles: OFFICE },
 	{ route: '/estimates/[id]', roles: OFFICE },
+	{ route: '/estimates/[id]/visit', roles: OFFICE },
 	{ route: '/crew', roles: ['owner', 'crew'] },
 	{ route: '/rates', roles: ['owner'] },
 	{ route: '/team', roles: ['owner'] },
@@ -48,6 +49,7 @@ export const ACCESS: readonly { route: string; roles: Access }[] = [
 	{ route: '/api/openapi.json', roles: OFFICE },
 	{ route: '/api/estimates', roles: OFFICE },
 	{ route: '/api/estimates/[id]', roles: OFFICE },
+	{ route: '/api/estimates/[id]/photos', roles: OFFICE },
 	{ route: '/api/rate-cards', roles: OFFICE },
 	{ route: '/api/roof-plans', roles: OFFICE },
 	{ route: '/api/roof-plans/[id]', roles: OFFICE },
@@ -56,6 +58,8 @@ export const ACCESS: readonly { route: string; roles: Access }[] = [
 	{ route: '/api/sites/[id]/roof-plans', roles: OFFICE },
 	{ route: '/api/sites/[id]/roof-plans/[version]', roles: OFFICE },
 	{ route: '/api/team', roles: ['owner'] },
+	// Site-visit photos: any signed-in member of the company (the crew reads them on the job).
+	{ route: '/photos/[id]/[rendition]', roles: ROLES },
 	// The bundled sample imagery: generated pictures of an invented town, no company data.
 	{ route: '/tiles/tiles.json', roles: PUBLIC },
 	{ route: '/tiles/[z]/[x]/[y]', roles: PUBLIC }

@@ -5,3 +5,4 @@ export * from './estimating';
 export * from './mail';
 export * from './payments';
 export * from './invoices';
+export * from './site-visits';
