@@ -13,7 +13,7 @@ import {
 } from '../photos';
 import { getStorage, type StoredFile } from '../storage';
 import { Conflict, NotFound } from './errors';
-import type { Caller } from './estimates';
+import { getEstimate, type Caller } from './estimates';
 
 /**
  * The photos of a site visit. A photo is checked and re-encoded before anything is stored, its
@@ -44,6 +44,19 @@ async function visitOf(companyId: string, estimateId: string) {
 	return v;
 }
 
+/** The photos of an estimate's visit (none before it starts); NotFound for another's estimate. */
+export async function listEstimatePhotos(
+	companyId: string,
+	estimateId: string
+): Promise<PhotoDto[]> {
+	const visit = await visitOf(companyId, estimateId);
+	if (visit) return listVisitPhotos(companyId, visit.id);
+	if (!(await getEstimate(companyId, estimateId))) {
+		throw new NotFound(`No estimate with id ${estimateId}.`);
+	}
+	return [];
+}
+
 export async function listVisitPhotos(companyId: string, visitId: string): Promise<PhotoDto[]> {
 	const db = await getDb();
 	const rows = await db
@@ -70,7 +83,12 @@ export async function addVisitPhoto(
 	upload: { name: string; bytes: Uint8Array }
 ): Promise<PhotoDto> {
 	const visit = await visitOf(caller.companyId, estimateId);
-	if (!visit) throw new Conflict('Start the site visit first, then add its photos.');
+	if (!visit) {
+		if (!(await getEstimate(caller.companyId, estimateId))) {
+			throw new NotFound(`No estimate with id ${estimateId}.`);
+		}
+		throw new Conflict('Start the site visit first, then add its photos.');
+	}
 	const perVisit = env.photosPerVisit;
 	// A cheap first look, so a full visit refuses before the work of decoding.
 	checkRoomForPhotos(await photoCount(visit.id), [upload.name], perVisit);
