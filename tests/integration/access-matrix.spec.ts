@@ -7,7 +7,7 @@ import { PGlite } from '@electric-sql/pglite';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ROLES, type Role } from '../../src/lib/roles';
 import { hashSessionToken, newSessionToken } from '../../src/lib/server/auth/tokens';
-import { createWithToken, signIn } from '../helpers/http';
+import { createWithToken, signIn, uploadPhoto } from '../helpers/http';
 import { listRoutes, type RouteInfo } from '../helpers/routes';
 import { DEMO, seededDataDir, startServer, type TestServer } from '../helpers/server';
 import { planFacetsOf } from '../../geodata/scene';
@@ -28,6 +28,7 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
 	'/sites/[id]/roof': OFFICE,
 	'/estimates': OFFICE,
 	'/estimates/[id]': OFFICE,
+	'/estimates/[id]/visit': OFFICE,
 	'/crew': ['owner', 'crew'],
 	'/rates': ['owner'],
 	'/team': ['owner'],
@@ -38,6 +39,7 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
 	'/api/openapi.json': OFFICE,
 	'/api/estimates': OFFICE,
 	'/api/estimates/[id]': OFFICE,
+	'/api/estimates/[id]/photos': OFFICE,
 	'/api/rate-cards': OFFICE,
 	'/api/roof-plans': OFFICE,
 	'/api/roof-plans/[id]': OFFICE,
@@ -46,6 +48,8 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
 	'/api/sites/[id]/roof-plans': OFFICE,
 	'/api/sites/[id]/roof-plans/[version]': OFFICE,
 	'/api/team': ['owner'],
+	// Site-visit photos: every signed-in member of the company; tokens open the API only.
+	'/photos/[id]/[rendition]': ALL,
 	'/tiles/tiles.json': 'public',
 	'/tiles/[z]/[x]/[y]': 'public'
 };
@@ -68,7 +72,7 @@ type Cell = {
 const routes = listRoutes();
 let server: TestServer;
 let prep: Prepared;
-const ids = { site: '', estimate: '', roofPlan: '' };
+const ids = { site: '', estimate: '', roofPlan: '', photo: '' };
 const cookies = {} as Record<Role, string>;
 /** One session per cell for a user deactivated after signing in: the first use ends it. */
 const deactivatedSessions: string[] = [];
@@ -79,7 +83,8 @@ function fillIds(pattern: string): string {
 		.replace(/\/estimates\/\[id\]/, `/estimates/${ids.estimate}`)
 		.replace(/\/roof-plans\/\[id\]/, `/roof-plans/${ids.roofPlan}`)
 		.replace('/roof-plans/[version]', '/roof-plans/latest')
-		.replace('/tiles/[z]/[x]/[y]', '/tiles/0/0/0.webp');
+		.replace('/tiles/[z]/[x]/[y]', '/tiles/0/0/0.webp')
+		.replace('/photos/[id]/[rendition]', `/photos/${ids.photo}/thumb`);
 	if (path.includes('[')) throw new Error(`Give ${pattern} a real sample id in fillIds.`);
 	return path;
 }
@@ -208,6 +213,21 @@ beforeAll(async () => {
 	ids.estimate = (
 		await post('/api/estimates', { ...sceneRequest(site.houseId!), siteId: site.id, save: true })
 	).estimate.id;
+	// A site visit with one photo, for the photo routes.
+	const started = await fetch(`${server.url}/estimates/${ids.estimate}/visit?/start`, {
+		method: 'POST',
+		redirect: 'manual',
+		headers: {
+			cookie: cookies.sales,
+			origin: server.url,
+			'content-type': 'application/x-www-form-urlencoded'
+		},
+		body: ''
+	});
+	if (started.status !== 200) throw new Error(`visit start: ${started.status}`);
+	ids.photo = (
+		await uploadPhoto(server.url, prep.ownerToken, ids.estimate, 'access-matrix.jpg')
+	).photo.id;
 });
 afterAll(async () => server?.stop());
 

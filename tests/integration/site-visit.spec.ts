@@ -402,7 +402,7 @@ describe('photo uploads', () => {
 				'content-type': 'application/octet-stream',
 				'x-photo-name': '%E0%A4%A'
 			},
-			body: await jpegWithGps()
+			body: (await jpegWithGps()) as Uint8Array<ArrayBuffer>
 		});
 		expect(bad.status).toBe(400);
 	});
