@@ -19,14 +19,36 @@ export const FIXTURE_GPS = {
 	}
 };
 
-/** A small JPEG carrying GPS and a capture time in its EXIF. */
-export async function jpegWithGps(width = 640, height = 480, colour = '#6b7d5a'): Promise<Buffer> {
+/** GPS tags for a position, seconds to 1/100 (the same encoding as FIXTURE_GPS). */
+export function gpsTags(lat: number, lon: number): Record<string, string> {
+	const dms = (v: number) => {
+		const a = Math.abs(v);
+		const d = Math.floor(a);
+		const m = Math.floor((a - d) * 60);
+		const cs = Math.round(((a - d) * 60 - m) * 60 * 100);
+		return `${d}/1 ${m}/1 ${cs}/100`;
+	};
+	return {
+		GPSLatitudeRef: lat >= 0 ? 'N' : 'S',
+		GPSLatitude: dms(lat),
+		GPSLongitudeRef: lon >= 0 ? 'E' : 'W',
+		GPSLongitude: dms(lon)
+	};
+}
+
+/** A small JPEG carrying GPS (FIXTURE_GPS unless given) and a capture time in its EXIF. */
+export async function jpegWithGps(
+	width = 640,
+	height = 480,
+	colour = '#6b7d5a',
+	at?: { lat: number; lon: number }
+): Promise<Buffer> {
 	return sharp({ create: { width, height, channels: 3, background: colour } })
 		.jpeg({ quality: 80 })
 		.withExif({
 			IFD0: { Make: 'Clearpitch fixture' },
 			IFD2: { DateTimeOriginal: '2026:05:14 10:21:07', OffsetTimeOriginal: '-04:00' },
-			IFD3: FIXTURE_GPS.tags
+			IFD3: at ? gpsTags(at.lat, at.lon) : FIXTURE_GPS.tags
 		})
 		.toBuffer();
 }
