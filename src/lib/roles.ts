@@ -44,6 +44,7 @@ export const ACCESS: readonly { route: string; roles: Access }[] = [
 	{ route: '/p/[token]', roles: PUBLIC },
 	// The outbox, for the owner (its page answers 404 outside demo mode).
 	{ route: '/outbox', roles: ['owner'] },
+	{ route: '/estimates/[id]/visit', roles: OFFICE },
 	{ route: '/crew', roles: ['owner', 'crew'] },
 	// Crew open only the sheets of jobs they are on; the service answers 404 for the others.
 	{ route: '/crew/[id]', roles: ['owner', 'crew'] },
@@ -56,6 +57,7 @@ export const ACCESS: readonly { route: string; roles: Access }[] = [
 	{ route: '/api/openapi.json', roles: OFFICE },
 	{ route: '/api/estimates', roles: OFFICE },
 	{ route: '/api/estimates/[id]', roles: OFFICE },
+	{ route: '/api/estimates/[id]/photos', roles: OFFICE },
 	{ route: '/api/rate-cards', roles: OFFICE },
 	{ route: '/api/roof-plans', roles: OFFICE },
 	{ route: '/api/roof-plans/[id]', roles: OFFICE },
@@ -68,6 +70,8 @@ export const ACCESS: readonly { route: string; roles: Access }[] = [
 	{ route: '/api/jobs/[id]/log', roles: ['owner', 'crew'] },
 	// The payment service's events: no account, the signature on the body is the check.
 	{ route: '/api/payments/webhook', roles: PUBLIC },
+	// Site-visit photos: any signed-in member of the company (the crew reads them on the job).
+	{ route: '/photos/[id]/[rendition]', roles: ROLES },
 	// The bundled sample imagery: generated pictures of an invented town, no company data.
 	{ route: '/tiles/tiles.json', roles: PUBLIC },
 	{ route: '/tiles/[z]/[x]/[y]', roles: PUBLIC }

@@ -1,3 +1,4 @@
+import sharp from 'sharp';
 import { DEMO, DEMO_PASSWORD } from './server';
 
 /** Signs in over plain HTTP the way a browser form would, and returns the session cookie. */
@@ -55,4 +56,29 @@ export async function createWithToken<T>(
 	});
 	if (res.status !== 201) throw new Error(`${path}: ${res.status} ${await res.text()}`);
 	return (await res.json()) as T;
+}
+
+/** Uploads a small generated JPEG to an estimate's started site visit, for a test's setup. */
+export async function uploadPhoto(
+	base: string,
+	token: string,
+	estimateId: string,
+	name: string
+): Promise<{ photo: { id: string } }> {
+	const bytes = await sharp({
+		create: { width: 64, height: 48, channels: 3, background: '#5a6b4d' }
+	})
+		.jpeg()
+		.toBuffer();
+	const res = await fetch(`${base}/api/estimates/${estimateId}/photos`, {
+		method: 'POST',
+		headers: {
+			authorization: `Bearer ${token}`,
+			'content-type': 'application/octet-stream',
+			'x-photo-name': encodeURIComponent(name)
+		},
+		body: bytes as Uint8Array<ArrayBuffer>
+	});
+	if (res.status !== 201) throw new Error(`photo upload: ${res.status} ${await res.text()}`);
+	return (await res.json()) as { photo: { id: string } };
 }

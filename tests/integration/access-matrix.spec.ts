@@ -7,7 +7,7 @@ import { PGlite } from '@electric-sql/pglite';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ROLES, type Role } from '../../src/lib/roles';
 import { hashSessionToken, newSessionToken } from '../../src/lib/server/auth/tokens';
-import { createWithToken, signIn } from '../helpers/http';
+import { createWithToken, signIn, uploadPhoto } from '../helpers/http';
 import { listRoutes, type RouteInfo } from '../helpers/routes';
 import { DEMO, seededDataDir, startServer, type TestServer } from '../helpers/server';
 import { planFacetsOf } from '../../geodata/scene';
@@ -37,6 +37,7 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
 	// The customer has no account: the private link is the key.
 	'/p/[token]': 'public',
 	'/outbox': ['owner'],
+	'/estimates/[id]/visit': OFFICE,
 	'/crew': ['owner', 'crew'],
 	// The sheet of a job the demo crew member is on; other crew get 404 (tests/integration/jobs.spec.ts).
 	'/crew/[id]': ['owner', 'crew'],
@@ -49,6 +50,7 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
 	'/api/openapi.json': OFFICE,
 	'/api/estimates': OFFICE,
 	'/api/estimates/[id]': OFFICE,
+	'/api/estimates/[id]/photos': OFFICE,
 	'/api/rate-cards': OFFICE,
 	'/api/roof-plans': OFFICE,
 	'/api/roof-plans/[id]': OFFICE,
@@ -61,6 +63,8 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
 	'/api/jobs/[id]/log': ['owner', 'crew'],
 	// The payment service has no account: the signature on the body is the check.
 	'/api/payments/webhook': 'public',
+	// Site-visit photos: every signed-in member of the company; tokens open the API only.
+	'/photos/[id]/[rendition]': ALL,
 	'/tiles/tiles.json': 'public',
 	'/tiles/[z]/[x]/[y]': 'public'
 };
@@ -83,7 +87,7 @@ type Cell = {
 const routes = listRoutes();
 let server: TestServer;
 let prep: Prepared;
-const ids = { site: '', estimate: '', roofPlan: '', job: '', token: '' };
+const ids = { site: '', estimate: '', roofPlan: '', job: '', token: '', photo: '' };
 let fakes: TestFakes;
 const cookies = {} as Record<Role, string>;
 /** One session per cell for a user deactivated after signing in: the first use ends it. */
@@ -98,7 +102,8 @@ function fillIds(pattern: string): string {
 		.replace(/^\/crew\/\[id\]/, `/crew/${ids.job}`)
 		.replace(/^\/api\/jobs\/\[id\]/, `/api/jobs/${ids.job}`)
 		.replace('/roof-plans/[version]', '/roof-plans/latest')
-		.replace('/tiles/[z]/[x]/[y]', '/tiles/0/0/0.webp');
+		.replace('/tiles/[z]/[x]/[y]', '/tiles/0/0/0.webp')
+		.replace('/photos/[id]/[rendition]', `/photos/${ids.photo}/thumb`);
 	if (path.includes('[')) throw new Error(`Give ${pattern} a real sample id in fillIds.`);
 	return path;
 }
@@ -243,6 +248,21 @@ beforeAll(async () => {
 		date: localToday(),
 		crewIds: [crew[DEMO.crew]]
 	});
+	// A site visit with one photo, for the photo routes.
+	const started = await fetch(`${server.url}/estimates/${ids.estimate}/visit?/start`, {
+		method: 'POST',
+		redirect: 'manual',
+		headers: {
+			cookie: cookies.sales,
+			origin: server.url,
+			'content-type': 'application/x-www-form-urlencoded'
+		},
+		body: ''
+	});
+	if (started.status !== 200) throw new Error(`visit start: ${started.status}`);
+	ids.photo = (
+		await uploadPhoto(server.url, prep.ownerToken, ids.estimate, 'access-matrix.jpg')
+	).photo.id;
 	// Send its proposal and accept it, so the customer's page and its actions have a live link
 	// (an accepted one: a probe body can then neither accept nor decline it).
 	const form = (path: string, cookie: string | null, fields: Record<string, string>) =>

@@ -10,7 +10,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { planFacetsOf } from '../../geodata/scene';
 import { DEFAULT_RATE_CARD } from '../../src/lib/estimating/rate-card';
 import { cardToForm } from '../../src/routes/(app)/rates/card-form';
-import { createWithToken, signIn } from '../helpers/http';
+import { createWithToken, signIn, uploadPhoto } from '../helpers/http';
 import { listRoutes } from '../helpers/routes';
 import {
 	DEMO,
@@ -45,6 +45,9 @@ let fakes: TestFakes;
 const prop = { sendEstimate: '', acceptToken: '', declineToken: '', paid: false };
 const validUntil = new Date(Date.now() + 30 * 86_400_000).toISOString().slice(0, 10);
 const customerData = (token: string) => getText(`/p/${token}/__data.json`, '');
+/** A second estimate whose site visit is confirmed before the fuzz starts. */
+let confirmedId = '';
+const visit = { photoId: '', facet: {} as Record<string, string> };
 let before: Record<string, number> = {};
 /** Writes the fuzz made on purpose (answers 2xx/3xx), per table. */
 const accepted: Record<string, number> = {};
@@ -404,6 +407,7 @@ const CASES: FuzzCase[] = [
 		// A changed password ends the member's other sessions: the watching one shows it.
 		fingerprint: async () => String((await getText('/api/me', target.watch)).status)
 	},
+	...visitCases(),
 	{
 		route: '/schedule',
 		action: 'schedule',
@@ -554,6 +558,56 @@ const CASES: FuzzCase[] = [
 	}
 ];
 
+/** The site-visit screen's actions; its page data is what they write. */
+function visitCases(): FuzzCase[] {
+	const fingerprint = (id: () => string) => async () =>
+		(await getText(`/estimates/${id()}/visit/__data.json`, ownerCookie)).text;
+	const open = () => estimateId;
+	const base = (action: string, id = open) => ({
+		route: '/estimates/[id]/visit',
+		action,
+		path: () => `/estimates/${id()}/visit?/${action}`,
+		cookie: () => estimatorCookie,
+		fingerprint: fingerprint(id)
+	});
+	return [
+		// Started before the fuzz: a repeated start answers the same visit and writes nothing.
+		{ ...base('start'), fields: ['x'], valid: () => ({}) },
+		{
+			...base('facet'),
+			fields: ['facetId', 'pitch', 'material', 'growth', 'access', 'stories'],
+			valid: () => visit.facet
+		},
+		{
+			...base('site'),
+			fields: ['obstacles', 'waterSource', 'pets', 'gateNotes', 'notes'],
+			valid: () => ({ obstacles: 'fence', waterSource: 'Spigot at the side', pets: 'none' })
+		},
+		{
+			...base('testSpot'),
+			fields: ['strengthPct', 'secondsToColourChange', 'rinsedClean', 'facetIds'],
+			valid: () => ({
+				strengthPct: '3',
+				secondsToColourChange: '40',
+				rinsedClean: 'yes',
+				facetIds: visit.facet.facetId
+			})
+		},
+		// Confirmed before the fuzz (its first confirmation is tested in site-visit.spec.ts).
+		{ ...base('confirm', () => confirmedId), fields: ['x'], valid: () => ({}) },
+		{
+			...base('photo'),
+			fields: ['photoId', 'forProposal'],
+			valid: () => ({ photoId: visit.photoId, forProposal: 'true' })
+		},
+		{
+			...base('deletePhoto'),
+			fields: ['photoId'],
+			valid: () => ({ photoId: '00000000-0000-4000-8000-000000000000' })
+		}
+	];
+}
+
 beforeAll(async () => {
 	dataDir = seededDataDir('form-fuzz');
 	prep = await prepareDataDir(dataDir);
@@ -622,6 +676,32 @@ beforeAll(async () => {
 	};
 	prop.acceptToken = await tokenFor('h03');
 	prop.declineToken = await tokenFor('h04');
+	// The site-visit actions: a started visit with a photo, and a second estimate's confirmed visit.
+	const other = prep.sites.filter((s) => s.houseId)[1];
+	confirmedId = (
+		await call('/api/estimates', { ...sceneRequest(other.houseId!), siteId: other.id, save: true })
+	).estimate.id;
+	for (const [id, name] of [
+		[estimateId, 'start'],
+		[confirmedId, 'start'],
+		[confirmedId, 'confirm']
+	]) {
+		const r = await post(`/estimates/${id}/visit?/${name}`, ownerCookie, {
+			encoding: 'urlencoded',
+			fields: []
+		});
+		if (r.status !== 200) throw new Error(`visit ${name}: ${r.status}`);
+	}
+	visit.photoId = (await uploadPhoto(server.url, prep.ownerToken, estimateId, 'fuzz.jpg')).photo.id;
+	const f = planFacetsOf(site.houseId!)[0];
+	visit.facet = {
+		facetId: f.id,
+		pitch: String(f.pitch),
+		material: f.material,
+		growth: f.growth,
+		access: f.access,
+		stories: String(f.stories)
+	};
 	// Counted with the server stopped (PGlite opens a data directory in one process at a time).
 	await server.stop();
 	before = await tableCounts(dataDir);
@@ -722,6 +802,12 @@ describe('form actions under fuzz', () => {
 				'',
 				{ decision: 'declined', reason: nul },
 				async () => (await customerData(prop.declineToken)).text
+			],
+			[
+				`/estimates/${estimateId}/visit?/site`,
+				estimatorCookie,
+				{ gateNotes: nul },
+				async () => (await getText(`/estimates/${estimateId}/visit/__data.json`, ownerCookie)).text
 			]
 		];
 		for (const [path, cookie, body, fingerprint] of tries) {

@@ -106,7 +106,7 @@ export function toEstimateInput(body: EstimateRequest): EstimateInput {
 	return { ...input, facets };
 }
 
-/** Issues as the API returns them: { path: 'facets.2.polygon', message }. */
+/** Issues as the API returns them: { path: 'facets.2.geometry', message }. */
 export interface FieldIssue {
 	path: string;
 	message: string;

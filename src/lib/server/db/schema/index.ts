@@ -7,3 +7,4 @@ export * from './payments';
 export * from './invoices';
 export * from './jobs';
 export * from './proposals';
+export * from './site-visits';
