@@ -137,7 +137,7 @@ describe('ACCESS', () => {
 		expect(isPublicFile('/sites')).toBe(false);
 	});
 
-	it('gives crew the Today page, crew sheets and their jobs, account, sign-out and /api/me only', () => {
+	it('gives crew the Today page, crew sheets and their jobs, site photos, account, sign-out and /api/me only', () => {
 		const crew = routes
 			.filter((r) => {
 				const a = rolesForRoute(r.id);
@@ -153,6 +153,7 @@ describe('ACCESS', () => {
 			'/api/me',
 			'/crew',
 			'/crew/[id]',
+			'/photos/[id]/[rendition]',
 			'/sign-out'
 		]);
 	});
