@@ -21,8 +21,9 @@ export type EstimateStatus = (typeof ESTIMATE_STATUSES)[number];
 /**
  * The moves an estimate can make and who may make them. The owner may make any of them; the
  * estimator readies a draft; sales sends, and records the customer's answer; the crew closes
- * the job it worked. Two moves carry data of their own and are made only where that data is
- * entered (JOB_MOVES): scheduling (date, window, crew) and done (the crew's log).
+ * the job it worked. Three moves carry data of their own and are made only where that data is
+ * entered (JOB_MOVES): scheduling (date, window, crew), done (the crew's log) and paid (the final
+ * invoice's payment).
  */
 const TRANSITIONS: Record<EstimateStatus, Partial<Record<EstimateStatus, readonly Role[]>>> = {
 	draft: { ready: ['owner', 'estimator'] },
@@ -61,5 +62,6 @@ export function rolesForMove(
 /** Moves made by scheduling and by the crew sheet, never by a bare status change. */
 export const JOB_MOVES: Partial<Record<EstimateStatus, string>> = {
 	scheduled: 'Schedule it on the Schedule page: it needs a date, a window and a crew.',
-	done: 'Mark it done on its crew sheet: it needs the checklist and an after photo, or a reason.'
+	done: 'Mark it done on its crew sheet: it needs the checklist and an after photo, or a reason.',
+	paid: 'It is paid when its final invoice is: by card through the pay link, or as cash or a cheque the owner records on the estimate.'
 };

@@ -42,6 +42,8 @@ export const ACCESS: readonly { route: string; roles: Access }[] = [
 	{ route: '/estimates/[id]/proposal', roles: OFFICE },
 	// The customer's proposal: no account, the private link's token is the key.
 	{ route: '/p/[token]', roles: PUBLIC },
+	// The final invoice's pay page: no account, the private link's token is the key.
+	{ route: '/i/[token]', roles: PUBLIC },
 	// The outbox, for the owner (its page answers 404 outside demo mode).
 	{ route: '/outbox', roles: ['owner'] },
 	{ route: '/estimates/[id]/visit', roles: OFFICE },
@@ -68,6 +70,8 @@ export const ACCESS: readonly { route: string; roles: Access }[] = [
 	{ route: '/api/team', roles: ['owner'] },
 	{ route: '/api/jobs/[id]', roles: ['owner', 'sales', 'crew'] },
 	{ route: '/api/jobs/[id]/log', roles: ['owner', 'crew'] },
+	// After photos: the crew on the job, and the owner.
+	{ route: '/api/jobs/[id]/photos', roles: ['owner', 'crew'] },
 	// The payment service's events: no account, the signature on the body is the check.
 	{ route: '/api/payments/webhook', roles: PUBLIC },
 	// Site-visit photos: any signed-in member of the company (the crew reads them on the job).

@@ -14,7 +14,7 @@ import { planFacetsOf } from '../../geodata/scene';
 import { startTestFakes, type TestFakes } from '../helpers/fakes';
 import { linkIn } from '../helpers/proposal';
 import { prepareDataDir, sceneRequest, type Prepared } from './api-helpers';
-import { acceptedEstimate, crewIds, scheduleViaForm } from '../helpers/jobs';
+import { acceptedEstimate, crewIds, postAction, scheduleViaForm } from '../helpers/jobs';
 import { localToday } from '../../src/lib/jobs/week';
 
 const OFFICE: Role[] = ['owner', 'estimator', 'sales'];
@@ -36,6 +36,8 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
 	'/estimates/[id]/proposal': OFFICE,
 	// The customer has no account: the private link is the key.
 	'/p/[token]': 'public',
+	// The final invoice's pay page: no account, the private link is the key.
+	'/i/[token]': 'public',
 	'/outbox': ['owner'],
 	'/estimates/[id]/visit': OFFICE,
 	'/crew': ['owner', 'crew'],
@@ -61,6 +63,7 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
 	'/api/team': ['owner'],
 	'/api/jobs/[id]': ['owner', 'sales', 'crew'],
 	'/api/jobs/[id]/log': ['owner', 'crew'],
+	'/api/jobs/[id]/photos': ['owner', 'crew'],
 	// The payment service has no account: the signature on the body is the check.
 	'/api/payments/webhook': 'public',
 	// Site-visit photos: every signed-in member of the company; tokens open the API only.
@@ -87,7 +90,15 @@ type Cell = {
 const routes = listRoutes();
 let server: TestServer;
 let prep: Prepared;
-const ids = { site: '', estimate: '', roofPlan: '', job: '', token: '', photo: '' };
+const ids = {
+	site: '',
+	estimate: '',
+	roofPlan: '',
+	job: '',
+	token: '',
+	photo: '',
+	invoiceToken: ''
+};
 let fakes: TestFakes;
 const cookies = {} as Record<Role, string>;
 /** One session per cell for a user deactivated after signing in: the first use ends it. */
@@ -98,6 +109,7 @@ function fillIds(pattern: string): string {
 		.replace(/\/sites\/\[id\]/, `/sites/${ids.site}`)
 		.replace(/\/estimates\/\[id\]/, `/estimates/${ids.estimate}`)
 		.replace('/p/[token]', `/p/${ids.token}`)
+		.replace('/i/[token]', `/i/${ids.invoiceToken}`)
 		.replace(/\/roof-plans\/\[id\]/, `/roof-plans/${ids.roofPlan}`)
 		.replace(/^\/crew\/\[id\]/, `/crew/${ids.job}`)
 		.replace(/^\/api\/jobs\/\[id\]/, `/api/jobs/${ids.job}`)
@@ -263,6 +275,19 @@ beforeAll(async () => {
 	ids.photo = (
 		await uploadPhoto(server.url, prep.ownerToken, ids.estimate, 'access-matrix.jpg')
 	).photo.id;
+	// A second job, closed by the owner, so the final invoice's pay page has a live link.
+	const closing = await scheduleViaForm(server.url, cookies.owner, {
+		estimateId: await acceptedEstimate(server.url, prep.ownerToken, site),
+		date: localToday(),
+		crewIds: [crew[DEMO.crew]]
+	});
+	const closed = await postAction(server.url, cookies.owner, `/crew/${closing}?/done`, {
+		reason: 'Closed for the access matrix, with no photos'
+	});
+	if (closed.type !== 'success') throw new Error(`done: ${closed.status} ${closed.data}`);
+	const invoiceMail = fakes.smtp.messages().find((m) => /^Invoice \d+/.test(m.subject ?? ''));
+	ids.invoiceToken = /\/i\/([A-Za-z0-9_-]{43})/.exec(invoiceMail?.text ?? '')?.[1] ?? '';
+	if (!ids.invoiceToken) throw new Error('No invoice e-mail with a pay link.');
 	// Send its proposal and accept it, so the customer's page and its actions have a live link
 	// (an accepted one: a probe body can then neither accept nor decline it).
 	const form = (path: string, cookie: string | null, fields: Record<string, string>) =>
@@ -277,7 +302,11 @@ beforeAll(async () => {
 			},
 			body: new URLSearchParams(fields).toString()
 		}).then(async (r) => ({ status: r.status, text: await r.text() }));
-	const ready = await fetch(`${server.url}/api/estimates/${ids.estimate}`, {
+	// Its own estimate: the one the matrix opens keeps an open site visit for the visit's actions.
+	const proposed = (
+		await post('/api/estimates', { ...sceneRequest(site.houseId!), siteId: site.id, save: true })
+	).estimate.id;
+	const ready = await fetch(`${server.url}/api/estimates/${proposed}`, {
 		method: 'PATCH',
 		headers: {
 			authorization: `Bearer ${prep.ownerToken}`,
@@ -287,7 +316,7 @@ beforeAll(async () => {
 	});
 	if (ready.status !== 200) throw new Error(`ready: ${ready.status}`);
 	const validUntil = new Date(Date.now() + 30 * 86_400_000).toISOString().slice(0, 10);
-	const sent = await form(`/estimates/${ids.estimate}/proposal?/send`, cookies.sales, {
+	const sent = await form(`/estimates/${proposed}/proposal?/send`, cookies.sales, {
 		to: 'access.matrix@wrenfield.example',
 		validUntil
 	});

@@ -105,10 +105,10 @@ describe('creating a deposit checkout', () => {
 	it('makes one session for one idempotency key, even on a double click', async () => {
 		const input = deposit(estimateIds[0], 'deposit:test-proposal-1:v1');
 		const [a, b] = await Promise.all([
-			pay.createDepositCheckout(db, stripe, input),
-			pay.createDepositCheckout(db, stripe, input)
+			pay.createCheckout(db, stripe, input),
+			pay.createCheckout(db, stripe, input)
 		]);
-		const c = await pay.createDepositCheckout(db, stripe, input);
+		const c = await pay.createCheckout(db, stripe, input);
 		expect(b.id).toBe(a.id);
 		expect(c.id).toBe(a.id);
 		expect(
@@ -128,9 +128,9 @@ describe('creating a deposit checkout', () => {
 
 	it('refuses the same key with other details, and stores nothing more', async () => {
 		const key = 'deposit:test-proposal-2:v1';
-		await pay.createDepositCheckout(db, stripe, deposit(estimateIds[1], key));
+		await pay.createCheckout(db, stripe, deposit(estimateIds[1], key));
 		const err = await pay
-			.createDepositCheckout(db, stripe, deposit(estimateIds[1], key, 99_900))
+			.createCheckout(db, stripe, deposit(estimateIds[1], key, 99_900))
 			.catch((e) => e);
 		expect(err).toBeInstanceOf(pay.PaymentServiceError);
 		expect(err.kind).toBe('idempotency');
@@ -143,7 +143,7 @@ describe('creating a deposit checkout', () => {
 
 	it('refuses amounts that are not whole cents, and a service that cannot be reached', async () => {
 		await expect(
-			pay.createDepositCheckout(db, stripe, deposit(estimateIds[2], 'deposit:bad-amount:v1', 125.5))
+			pay.createCheckout(db, stripe, deposit(estimateIds[2], 'deposit:bad-amount:v1', 125.5))
 		).rejects.toThrow();
 		const down = pay.createPaymentsClient({
 			mode: 'local-fake',
@@ -152,7 +152,7 @@ describe('creating a deposit checkout', () => {
 			fakeUrl: new URL(`http://127.0.0.1:${await freePort()}`)
 		});
 		const err = await pay
-			.createDepositCheckout(db, down, deposit(estimateIds[2], 'deposit:unreachable:v1'))
+			.createCheckout(db, down, deposit(estimateIds[2], 'deposit:unreachable:v1'))
 			.catch((e) => e);
 		expect(err).toBeInstanceOf(pay.PaymentServiceError);
 		expect(err.kind).toBe('unreachable');
@@ -166,11 +166,7 @@ describe('creating a deposit checkout', () => {
 
 describe('the pay page and its webhooks', () => {
 	it('pays on the hosted page: signed event verified, checkout complete, sent back to success', async () => {
-		const c = await pay.createDepositCheckout(
-			db,
-			stripe,
-			deposit(estimateIds[3], 'deposit:pay:v1')
-		);
+		const c = await pay.createCheckout(db, stripe, deposit(estimateIds[3], 'deposit:pay:v1'));
 		const page = await fetch(c.url);
 		expect(page.status).toBe(200);
 		const htmlText = await page.text();
@@ -195,11 +191,7 @@ describe('the pay page and its webhooks', () => {
 	});
 
 	it('applies a replayed or duplicated event once', async () => {
-		const c = await pay.createDepositCheckout(
-			db,
-			stripe,
-			deposit(estimateIds[4], 'deposit:replay:v1')
-		);
+		const c = await pay.createCheckout(db, stripe, deposit(estimateIds[4], 'deposit:replay:v1'));
 		const calls = onChangeCalls;
 		const event = await fake.pay(c.id);
 		expect(onChangeCalls).toBe(calls + 1);
@@ -218,11 +210,7 @@ describe('the pay page and its webhooks', () => {
 	});
 
 	it('cancels: the session expires, the customer goes back, nothing is paid', async () => {
-		const c = await pay.createDepositCheckout(
-			db,
-			stripe,
-			deposit(estimateIds[5], 'deposit:cancel:v1')
-		);
+		const c = await pay.createCheckout(db, stripe, deposit(estimateIds[5], 'deposit:cancel:v1'));
 		const res = await fetch(c.url, {
 			method: 'POST',
 			redirect: 'manual',
@@ -246,7 +234,7 @@ describe('the pay page and its webhooks', () => {
 
 	it('handles events out of order: paid stays paid, and an event may come before our record', async () => {
 		// A late "expired" for a checkout already paid is ignored.
-		const c = await pay.createDepositCheckout(
+		const c = await pay.createCheckout(
 			db,
 			stripe,
 			deposit(estimateIds[0], 'deposit:order:v1', 10_000)
@@ -299,11 +287,7 @@ describe('the pay page and its webhooks', () => {
 	});
 
 	it('refuses a tampered body, a wrong secret, a stale or missing signature, and records nothing', async () => {
-		const c = await pay.createDepositCheckout(
-			db,
-			stripe,
-			deposit(estimateIds[2], 'deposit:tamper:v1')
-		);
+		const c = await pay.createCheckout(db, stripe, deposit(estimateIds[2], 'deposit:tamper:v1'));
 		const s = fake.sessions().find((x) => x.id === c.id)!;
 		const event = {
 			id: 'evt_test_tampered_0001',

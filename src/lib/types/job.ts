@@ -1,6 +1,6 @@
 /** Shapes of scheduled jobs that the browser and the server share. */
 
-export const JOB_STATUSES = ['scheduled', 'postponed', 'done'] as const;
+export const JOB_STATUSES = ['scheduled', 'postponed', 'done', 'paid'] as const;
 export type JobStatus = (typeof JOB_STATUSES)[number];
 
 /** One change to a job's plan. Appended, never rewritten: a postponement keeps what it moved. */
@@ -44,4 +44,9 @@ export interface WeekJob {
 export interface CrewMember {
 	id: string;
 	name: string;
+}
+
+/** A done or paid job: it stays where it was, and its log no longer changes. */
+export function isClosed(status: JobStatus | undefined): boolean {
+	return status === 'done' || status === 'paid';
 }

@@ -150,6 +150,7 @@ describe('ACCESS', () => {
 			'/account',
 			'/api/jobs/[id]',
 			'/api/jobs/[id]/log',
+			'/api/jobs/[id]/photos',
 			'/api/me',
 			'/crew',
 			'/crew/[id]',

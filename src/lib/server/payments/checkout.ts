@@ -1,13 +1,16 @@
 import type Stripe from 'stripe';
 import { z } from 'zod';
 import type { Db } from '../db';
-import { depositCheckouts } from '../db/schema';
+import { CHECKOUT_KINDS, depositCheckouts } from '../db/schema';
 import { PaymentServiceError } from './errors';
 
-export const depositCheckoutInput = z.object({
+export const checkoutInput = z.object({
+	/** A proposal's deposit, or a final invoice's balance (which names its invoice). */
+	kind: z.enum(CHECKOUT_KINDS).default('deposit'),
+	invoiceId: z.uuid().optional(),
 	companyId: z.uuid(),
 	estimateId: z.uuid(),
-	/** The accepted deposit, from the server's own records, never from the browser. */
+	/** The accepted deposit or the balance owed, from the server's records, never the browser. */
 	amountCents: z.number().int().min(50).max(10_000_000),
 	currency: z
 		.string()
@@ -22,19 +25,19 @@ export const depositCheckoutInput = z.object({
 	/** Same key, same request → the same session (e.g. `deposit:${proposalId}:v${version}`). */
 	idempotencyKey: z.string().min(8).max(255)
 });
-export type DepositCheckoutInput = z.input<typeof depositCheckoutInput>;
-export type DepositCheckout = { id: string; url: string; status: string };
+export type CheckoutInput = z.input<typeof checkoutInput>;
+export type Checkout = { id: string; url: string; status: string };
 
 /**
- * Creates (or, for a key already used, returns) the checkout session for a deposit and records
+ * Creates (or, for a key already used, returns) the checkout session for a payment and records
  * it. The row is written only after the service answered, so a failed call leaves nothing.
  */
-export async function createDepositCheckout(
+export async function createCheckout(
 	db: Db,
 	stripe: Stripe,
-	input: DepositCheckoutInput
-): Promise<DepositCheckout> {
-	const p = depositCheckoutInput.parse(input);
+	input: CheckoutInput
+): Promise<Checkout> {
+	const p = checkoutInput.parse(input);
 	let session: Stripe.Checkout.Session;
 	try {
 		session = await stripe.checkout.sessions.create(
@@ -53,9 +56,10 @@ export async function createDepositCheckout(
 				client_reference_id: p.estimateId,
 				customer_email: p.customerEmail,
 				metadata: {
-					kind: 'deposit',
+					kind: p.kind,
 					companyId: p.companyId,
 					estimateId: p.estimateId,
+					...(p.invoiceId ? { invoiceId: p.invoiceId } : {}),
 					idempotencyKey: p.idempotencyKey
 				},
 				success_url: p.successUrl,
@@ -77,6 +81,8 @@ export async function createDepositCheckout(
 		.insert(depositCheckouts)
 		.values({
 			id: session.id,
+			kind: p.kind,
+			invoiceId: p.invoiceId ?? null,
 			companyId: p.companyId,
 			estimateId: p.estimateId,
 			amountCents: p.amountCents,

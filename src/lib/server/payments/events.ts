@@ -21,7 +21,8 @@ export type EventOutcome =
  * effect, so a replayed or duplicated delivery changes nothing twice. Order does not matter: a
  * paid checkout stays paid whatever arrives after, and an event that beats our own record of
  * the checkout creates it from the event's data. `onChange` runs inside the transaction when
- * the checkout changed (move the estimate there, with `tx` only).
+ * the checkout changed (move the estimate there, with `tx` only). A deposit names its estimate;
+ * a balance names its invoice too.
  */
 export async function applyPaymentEvent(
 	db: Db,
@@ -50,7 +51,16 @@ export async function applyPaymentEvent(
 		let checkout: CheckoutRow | null = null;
 		const target = targetState(event);
 		const estimateId = meta.estimateId;
-		if (session && target && meta.kind === 'deposit' && companyId && isUuid(estimateId)) {
+		const kind = meta.kind === 'deposit' || meta.kind === 'balance' ? meta.kind : null;
+		const invoiceId = kind === 'balance' && isUuid(meta.invoiceId) ? meta.invoiceId : null;
+		if (
+			session &&
+			target &&
+			kind &&
+			(kind === 'deposit' || invoiceId) &&
+			companyId &&
+			isUuid(estimateId)
+		) {
 			const [estimate] = await tx
 				.select({ id: estimates.id })
 				.from(estimates)
@@ -58,7 +68,9 @@ export async function applyPaymentEvent(
 			if (estimate) {
 				({ outcome, checkout } = await applyState(tx, session, target, event.created, {
 					companyId,
-					estimateId
+					estimateId,
+					kind,
+					invoiceId
 				}));
 				if (outcome === 'applied' && onChange) await onChange(tx, checkout!, event);
 			}
@@ -92,7 +104,12 @@ async function applyState(
 	s: Stripe.Checkout.Session,
 	target: Target,
 	at: number,
-	ids: { companyId: string; estimateId: string }
+	ids: {
+		companyId: string;
+		estimateId: string;
+		kind: 'deposit' | 'balance';
+		invoiceId: string | null;
+	}
 ): Promise<{ outcome: EventOutcome; checkout: CheckoutRow }> {
 	const paidFields = target.paid
 		? { amountPaidCents: s.amount_total ?? 0, paidAt: new Date(at * 1000) }

@@ -1,10 +1,5 @@
 export { createPaymentsClient, getPaymentsClient } from './client';
-export {
-	createDepositCheckout,
-	depositCheckoutInput,
-	type DepositCheckout,
-	type DepositCheckoutInput
-} from './checkout';
+export { createCheckout, type Checkout, type CheckoutInput } from './checkout';
 export { PaymentServiceError, WebhookSignatureError } from './errors';
 export {
 	applyPaymentEvent,

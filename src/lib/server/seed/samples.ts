@@ -5,6 +5,7 @@ import { savePlanSchema } from '$lib/schemas/roof-plan';
 import { getDb } from '../db';
 import { estimates, roofPlans, sites, users } from '../db/schema';
 import type { EstimateResult } from '../../estimating/types';
+import { recordPayment } from '../services/balance';
 import { changeStatus, priceEstimateBody, type EstimateStatus } from '../services/estimates';
 import { markDone, saveLog, scheduleJob, type Caller } from '../services/jobs';
 import { savePlan } from '../services/roof-plans';
@@ -140,7 +141,13 @@ async function sampleJob(caller: Caller, estimateId: string, status: EstimateSta
 		notes: 'North slope needed a second pass on the lichen by the chimney.',
 		clientUpdatedAt: new Date().toISOString()
 	});
-	// After photos come through the site-visit upload path; the sample closes with a reason.
-	await markDone(caller, jobId, 'Sample job: after photos were kept on the crew phone.');
-	if (status === 'paid') await changeStatus(caller, estimateId, 'paid');
+	// The sample closes with a reason in place of after photos (the seed has no camera).
+	await markDone(
+		caller,
+		jobId,
+		'Sample job: after photos were kept on the crew phone.',
+		process.env.ORIGIN || 'http://localhost:3000'
+	);
+	if (status === 'paid')
+		await recordPayment(caller, estimateId, { method: 'cheque', reference: 'Cheque 1042' });
 }

@@ -1,13 +1,21 @@
 import { and, asc, eq, gte, inArray, isNull, lte, or, sql } from 'drizzle-orm';
 import type { Role } from '../../roles';
 import type { EstimateInput, EstimateResult } from '../../estimating/types';
-import type { CrewMember, JobHistoryEntry, JobLogState, JobStatus, WeekJob } from '../../types/job';
+import {
+	isClosed,
+	type CrewMember,
+	type JobHistoryEntry,
+	type JobLogState,
+	type JobStatus,
+	type WeekJob
+} from '../../types/job';
 import { checkDone, checklistItems, EMPTY_LOG } from '../../jobs/checklist';
 import { addDays } from '../../jobs/week';
 import type { JobLogBody } from '../../schemas/job';
 import { getDb, type Db } from '../db';
 import { customers, estimates, jobLogs, jobs, sites, users, type SiteFlags } from '../db/schema';
 import { Conflict, Forbidden, Invalid, NotFound } from './errors';
+import { issueFinalInvoice, trySendNow } from './balance';
 import { countAfterPhotos } from './job-photos';
 import { mailJobChange } from './job-mail';
 
@@ -146,7 +154,9 @@ async function jobRow(tx: Tx, companyId: string, jobId: string) {
 }
 
 function assertOpen(j: { status: JobStatus; revision: number }, revision: number) {
-	if (j.status === 'done') throw new Conflict('This job is done; it can no longer be moved.');
+	if (isClosed(j.status)) {
+		throw new Conflict('This job is done; it can no longer be moved.');
+	}
 	if (j.revision !== revision) {
 		throw new Conflict(
 			'Someone changed this job since you opened the schedule; reload and try again.'
@@ -300,7 +310,7 @@ export async function listSheets(caller: Caller, from: string): Promise<WeekJob[
 			)
 		)
 		// Open jobs first (soonest on top), then the done ones.
-		.orderBy(sql`${jobs.status} = 'done'`, asc(jobs.date), asc(jobs.windowStart));
+		.orderBy(sql`${jobs.status} in ('done', 'paid')`, asc(jobs.date), asc(jobs.windowStart));
 	return rows.map(weekJob);
 }
 
@@ -430,7 +440,9 @@ export async function saveLog(
 	return db.transaction(async (tx) => {
 		const j = await jobRow(tx, caller.companyId, jobId);
 		if (!mayWork(caller, j.crewIds)) throw new NotFound(`No job with id ${jobId}.`);
-		if (j.status === 'done') throw new Conflict('This job is done; its log can no longer change.');
+		if (isClosed(j.status)) {
+			throw new Conflict('This job is done; its log can no longer change.');
+		}
 		const at = new Date(body.clientUpdatedAt);
 		const values = {
 			checklist: body.checklist,
@@ -466,19 +478,23 @@ export async function saveLog(
 
 /**
  * Marks a job done (and its estimate `done`): refused (Invalid, with what is missing) unless the
- * whole checklist is ticked and there is at least one after photo, or a reason is given.
+ * whole checklist is ticked and there is at least one after photo, or a reason is given. The
+ * final invoice is issued and e-mailed with it (services/balance.ts).
  */
 export async function markDone(
 	caller: Caller,
 	jobId: string,
-	reason: string | null
-): Promise<void> {
+	reason: string | null,
+	linkBase: string
+): Promise<{ invoiceId: string }> {
 	if (caller.role !== 'owner' && caller.role !== 'crew') {
 		throw new Forbidden('Only the crew on the job or the owner can mark it done.');
 	}
 	const db = await getDb();
 	const sheet = await getSheet(caller, jobId);
-	if (sheet.job.status === 'done') throw new Conflict('This job is already done.');
+	if (isClosed(sheet.job.status)) {
+		throw new Conflict('This job is already done.');
+	}
 	if (sheet.job.status !== 'scheduled') {
 		throw new Conflict('A postponed job needs a date before it can be done.');
 	}
@@ -493,7 +509,7 @@ export async function markDone(
 			check.missing.map((m) => ({ path: 'reason', message: m }))
 		);
 	}
-	await db.transaction(async (tx) => {
+	const made = await db.transaction(async (tx) => {
 		const j = await jobRow(tx, caller.companyId, jobId);
 		const moved = await tx
 			.update(estimates)
@@ -514,5 +530,9 @@ export async function markDone(
 			.insert(jobLogs)
 			.values({ companyId: caller.companyId, jobId, doneReason: reason, updatedBy: caller.id })
 			.onConflictDoUpdate({ target: jobLogs.jobId, set: { doneReason: reason } });
+		// The balance is invoiced with the move to done: both commit, or neither.
+		return issueFinalInvoice(tx, caller, j.estimateId, linkBase);
 	});
+	await trySendNow(made.mailId);
+	return { invoiceId: made.invoiceId };
 }

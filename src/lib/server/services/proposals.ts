@@ -33,7 +33,7 @@ import {
 } from '../mail';
 import type { DbTx } from '../mail/outbox';
 import {
-	createDepositCheckout,
+	createCheckout,
 	depositCheckoutsFor,
 	getPaymentsClient,
 	type CheckoutRow
@@ -547,7 +547,7 @@ export async function startDeposit(
 	const open = checkouts.find((c) => c.status === 'open' && c.url);
 	if (open) return open.url!;
 	const link = new URL(`/p/${token}`, origin).toString();
-	const made = await createDepositCheckout(db, getPaymentsClient(), {
+	const made = await createCheckout(db, getPaymentsClient(), {
 		companyId: p.companyId,
 		estimateId: p.estimateId,
 		amountCents: a.depositCents,

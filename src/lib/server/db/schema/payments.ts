@@ -11,12 +11,21 @@ import {
 import { timestamps } from './columns';
 import { companies } from './company';
 import { estimates } from './estimating';
+import { invoices } from './invoices';
 
 export const CHECKOUT_STATUSES = ['open', 'complete', 'expired'] as const;
 export type CheckoutStatus = (typeof CHECKOUT_STATUSES)[number];
 export const checkoutStatusEnum = pgEnum('checkout_status', CHECKOUT_STATUSES);
 
-/** A deposit checkout at the payment service, mirrored from its answers and its events. */
+/** What a checkout pays: an accepted proposal's deposit, or a final invoice's balance. */
+export const CHECKOUT_KINDS = ['deposit', 'balance'] as const;
+export type CheckoutKind = (typeof CHECKOUT_KINDS)[number];
+export const checkoutKindEnum = pgEnum('checkout_kind', CHECKOUT_KINDS);
+
+/**
+ * A checkout at the payment service (a deposit, or a final invoice's balance), mirrored from its
+ * answers and its events.
+ */
 export const depositCheckouts = pgTable(
 	'deposit_checkouts',
 	{
@@ -28,7 +37,10 @@ export const depositCheckouts = pgTable(
 		estimateId: uuid('estimate_id')
 			.notNull()
 			.references(() => estimates.id),
-		/** What the app asked to charge, in cents; the accepted deposit, decided on the server. */
+		kind: checkoutKindEnum('kind').notNull().default('deposit'),
+		/** For a balance: the invoice it pays. */
+		invoiceId: uuid('invoice_id').references(() => invoices.id),
+		/** What the app asked to charge, in cents; decided on the server, never by the browser. */
 		amountCents: integer('amount_cents').notNull(),
 		currency: text('currency').notNull(),
 		idempotencyKey: text('idempotency_key').notNull(),

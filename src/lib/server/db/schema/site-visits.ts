@@ -1,5 +1,7 @@
+import { sql } from 'drizzle-orm';
 import {
 	boolean,
+	check,
 	doublePrecision,
 	index,
 	integer,
@@ -16,6 +18,7 @@ import { companies } from './company';
 import { users } from './auth';
 import { sites } from './sites';
 import { estimates, roofPlans } from './estimating';
+import { jobs } from './jobs';
 
 /**
  * What the salesperson found on site for one estimate: the facets as confirmed or corrected,
@@ -80,9 +83,9 @@ export const photos = pgTable(
 		siteId: uuid('site_id')
 			.notNull()
 			.references(() => sites.id),
-		visitId: uuid('visit_id')
-			.notNull()
-			.references(() => siteVisits.id),
+		/** A site-visit photo has its visit; a crew's after photo has its job (exactly one of them). */
+		visitId: uuid('visit_id').references(() => siteVisits.id),
+		jobId: uuid('job_id').references(() => jobs.id),
 		displayKey: text('display_key').notNull(),
 		thumbnailKey: text('thumbnail_key').notNull(),
 		/** The uploader's file name, for captions only; never part of a storage key. */
@@ -99,5 +102,9 @@ export const photos = pgTable(
 		createdBy: uuid('created_by').references(() => users.id),
 		...timestamps
 	},
-	(t) => [index('photos_visit_idx').on(t.visitId, t.createdAt)]
+	(t) => [
+		index('photos_visit_idx').on(t.visitId, t.createdAt),
+		index('photos_job_idx').on(t.jobId, t.createdAt),
+		check('photos_one_owner', sql`num_nonnulls(${t.visitId}, ${t.jobId}) = 1`)
+	]
 );

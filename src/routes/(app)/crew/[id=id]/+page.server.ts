@@ -8,6 +8,9 @@ import { statusOf } from '$lib/server/api/errors';
 import { requireRole } from '$lib/server/auth/guard';
 import { DomainError, NotFound } from '$lib/server/services/errors';
 import { getSheet, markDone } from '$lib/server/services/jobs';
+import { listAfterPhotos } from '$lib/server/services/job-photos';
+import { env } from '$lib/server/env';
+import { photoLimits } from '$lib/server/photos';
 import { companyImagery } from '$lib/server/services/sites';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -45,6 +48,8 @@ export const load: PageServerLoad = async (event) => {
 		checklist: checklistItems(facets),
 		log: sheet.log,
 		afterPhotos: sheet.afterPhotos,
+		photos: await listAfterPhotos(user.companyId, event.params.id),
+		photoRules: { maxBytes: photoLimits().maxBytes, perJob: env.photosPerVisit },
 		dwellMinutes: DWELL_LIMIT_MINUTES,
 		labourHours: result.labour.hours,
 		crewSize: result.labour.crewSize
@@ -57,8 +62,10 @@ export const actions: Actions = {
 		const parsed = doneSchema.safeParse(formObject(await event.request.formData()));
 		if (!parsed.success) return fail(400, { errors: fieldErrors(parsed.error) });
 		try {
-			await markDone(user, event.params.id, parsed.data.reason);
-			return { done: 'Marked done. Thank you — the office has it.' };
+			await markDone(user, event.params.id, parsed.data.reason, event.url.origin);
+			return {
+				done: 'Marked done. Thank you — the office has it, and the customer has the final invoice.'
+			};
 		} catch (e) {
 			if (e instanceof DomainError) return fail(statusOf(e), { message: e.message });
 			throw e;

@@ -1,5 +1,7 @@
 import { error, fail } from '@sveltejs/kit';
-import { formObject } from '$lib/schemas/form';
+import { fieldErrors, formObject } from '$lib/schemas/form';
+import { recordPaymentSchema } from '$lib/schemas/balance';
+import { balanceOf, recordPayment } from '$lib/server/services/balance';
 import { statusOf } from '$lib/server/api/errors';
 import { DomainError } from '$lib/server/services/errors';
 import { estimatePatchSchema } from '$lib/schemas/estimates-api';
@@ -24,7 +26,9 @@ export const load: PageServerLoad = async (event) => {
 	return {
 		estimate,
 		nextStatuses: nextStatusesFor(estimate.status, user.role),
-		proposals: proposal?.versions ?? null
+		proposals: proposal?.versions ?? null,
+		balance: await balanceOf(user.companyId, estimate.id),
+		canRecordPayment: user.role === 'owner'
 	};
 };
 
@@ -38,6 +42,18 @@ export const actions: Actions = {
 			return { done: `Marked ${moved.status}.` };
 		} catch (e) {
 			if (e instanceof DomainError) return fail(statusOf(e), { message: e.message });
+			throw e;
+		}
+	},
+	payment: async (event) => {
+		const user = requireRole(event, 'owner');
+		const parsed = recordPaymentSchema.safeParse(formObject(await event.request.formData()));
+		if (!parsed.success) return fail(400, { paymentErrors: fieldErrors(parsed.error) });
+		try {
+			const b = await recordPayment(user, event.params.id, parsed.data);
+			return { done: `Invoice ${b.number} recorded as paid.` };
+		} catch (e) {
+			if (e instanceof DomainError) return fail(statusOf(e), { paymentMessage: e.message });
 			throw e;
 		}
 	}

@@ -1,6 +1,7 @@
 import { json } from '@sveltejs/kit';
 import { getDb } from '$lib/server/db';
 import { applyPaymentEvent, verifyWebhook, WebhookSignatureError } from '$lib/server/payments';
+import { onBalanceChange } from '$lib/server/services/balance';
 import { onDepositChange } from '$lib/server/services/proposals';
 import type { RequestHandler } from './$types';
 
@@ -25,7 +26,7 @@ export const POST: RequestHandler = async ({ request }) => {
 		throw e;
 	}
 	const r = await applyPaymentEvent(await getDb(), event, (tx, checkout) =>
-		onDepositChange(tx, checkout)
+		checkout.kind === 'balance' ? onBalanceChange(tx, checkout) : onDepositChange(tx, checkout)
 	);
 	return json({ received: true, outcome: r.outcome });
 };
