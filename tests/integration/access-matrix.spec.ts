@@ -72,6 +72,14 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
 	'/tiles/[z]/[x]/[y]': 'public'
 };
 
+/**
+ * Actions narrower than their page's row (the action's own requireRole), by `pattern ?/action`:
+ * the owner alone records a payment on an estimate the office can open.
+ */
+const ACTION_EXPECTED: Record<string, Role[]> = {
+	'/estimates/[id] ?/payment': ['owner']
+};
+
 const CALLERS = ['anonymous', ...ROLES, 'api token', 'revoked token', 'deactivated user'] as const;
 type Caller = (typeof CALLERS)[number];
 
@@ -149,7 +157,10 @@ function cellsOf(route: RouteInfo): Cell[] {
 const CELLS = routes.flatMap(cellsOf);
 
 function expected(cell: Cell, caller: Caller): Outcome {
-	const allowed = EXPECTED[cell.route.pattern];
+	const action = /\?\/(\w+)$/.exec(cell.path())?.[1];
+	const allowed =
+		(action && ACTION_EXPECTED[`${cell.route.pattern} ?/${action}`]) ||
+		EXPECTED[cell.route.pattern];
 	if (allowed === 'public') return 'through';
 	const isApi = cell.route.pattern.startsWith('/api/');
 	const signedOut =
