@@ -42,6 +42,8 @@ export const ACCESS: readonly { route: string; roles: Access }[] = [
 	{ route: '/estimates/[id]/proposal', roles: OFFICE },
 	// The customer's proposal: no account, the private link's token is the key.
 	{ route: '/p/[token]', roles: PUBLIC },
+	// The photos a sent proposal lists, on the customer's page: the same private link is the key.
+	{ route: '/p/[token]/photos/[id]', roles: PUBLIC },
 	// The final invoice's pay page: no account, the private link's token is the key.
 	{ route: '/i/[token]', roles: PUBLIC },
 	// The outbox, for the owner (its page answers 404 outside demo mode).

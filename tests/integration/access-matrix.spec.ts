@@ -36,6 +36,7 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
 	'/estimates/[id]/proposal': OFFICE,
 	// The customer has no account: the private link is the key.
 	'/p/[token]': 'public',
+	'/p/[token]/photos/[id]': 'public',
 	// The final invoice's pay page: no account, the private link is the key.
 	'/i/[token]': 'public',
 	'/outbox': ['owner'],
@@ -105,7 +106,8 @@ const ids = {
 	job: '',
 	token: '',
 	photo: '',
-	invoiceToken: ''
+	invoiceToken: '',
+	proposalPhoto: ''
 };
 let fakes: TestFakes;
 const cookies = {} as Record<Role, string>;
@@ -116,6 +118,7 @@ function fillIds(pattern: string): string {
 	const path = pattern
 		.replace(/\/sites\/\[id\]/, `/sites/${ids.site}`)
 		.replace(/\/estimates\/\[id\]/, `/estimates/${ids.estimate}`)
+		.replace('/p/[token]/photos/[id]', `/p/${ids.token}/photos/${ids.proposalPhoto}`)
 		.replace('/p/[token]', `/p/${ids.token}`)
 		.replace('/i/[token]', `/i/${ids.invoiceToken}`)
 		.replace(/\/roof-plans\/\[id\]/, `/roof-plans/${ids.roofPlan}`)
@@ -317,6 +320,17 @@ beforeAll(async () => {
 	const proposed = (
 		await post('/api/estimates', { ...sceneRequest(site.houseId!), siteId: site.id, save: true })
 	).estimate.id;
+	// Its visit has a photo marked for the customer, so the proposal's photo route has a real id.
+	const visit = await form(`/estimates/${proposed}/visit?/start`, cookies.sales, {});
+	if (visit.status !== 200) throw new Error(`visit start: ${visit.status}`);
+	ids.proposalPhoto = (
+		await uploadPhoto(server.url, prep.ownerToken, proposed, 'for-customer.jpg')
+	).photo.id;
+	const marked = await form(`/estimates/${proposed}/visit?/photo`, cookies.sales, {
+		photoId: ids.proposalPhoto,
+		forProposal: 'true'
+	});
+	if (marked.status !== 200) throw new Error(`visit photo: ${marked.status}`);
 	const ready = await fetch(`${server.url}/api/estimates/${proposed}`, {
 		method: 'PATCH',
 		headers: {

@@ -63,7 +63,7 @@ describe('estimate status moves', () => {
 });
 
 describe('moves that carry data of their own', () => {
-	it('sends scheduling and done to the screens that collect their data', () => {
-		expect(Object.keys(JOB_MOVES).sort()).toEqual(['done', 'scheduled']);
+	it('sends scheduling, done and paid to the screens that collect their data', () => {
+		expect(Object.keys(JOB_MOVES).sort()).toEqual(['done', 'paid', 'scheduled']);
 	});
 });

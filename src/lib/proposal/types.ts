@@ -38,6 +38,8 @@ export type ProposalSnapshot = {
 	validUntil: string;
 	issuedOn: string;
 	version: number;
+	/** Site-visit photos the salesperson marked for the customer (absent in older versions). */
+	photos?: { id: string; caption: string }[];
 };
 
 /** The office's view of one sent version. */

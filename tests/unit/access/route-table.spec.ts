@@ -109,12 +109,14 @@ describe('ACCESS', () => {
 	it('keeps the public list in the same table', () => {
 		const open = ACCESS.filter((a) => a.roles === PUBLIC).map((a) => a.route);
 		// Sign-in must open without a session; the health probe and the sample imagery carry no data;
-		// the customer's proposal and the payment service's webhook have no account (a private
-		// link, a signature).
+		// the customer's proposal, its photos, the final invoice and the payment service's webhook
+		// have no account (a private link, a signature).
 		expect(open.sort()).toEqual([
 			'/api/health',
 			'/api/payments/webhook',
+			'/i/[token]',
 			'/p/[token]',
+			'/p/[token]/photos/[id]',
 			'/sign-in',
 			'/tiles/[z]/[x]/[y]',
 			'/tiles/tiles.json'

@@ -74,6 +74,8 @@ export type SnapshotSource = {
 	validUntil: string;
 	issuedOn: string;
 	version: number;
+	/** Site-visit photos marked for the customer. */
+	photos?: { id: string; fileName: string }[];
 };
 
 export function buildSnapshot(s: SnapshotSource): ProposalSnapshot {
@@ -106,6 +108,7 @@ export function buildSnapshot(s: SnapshotSource): ProposalSnapshot {
 		expectations: r.expectations.map((n) => noteText(n, names)),
 		validUntil: s.validUntil,
 		issuedOn: s.issuedOn,
-		version: s.version
+		version: s.version,
+		photos: (s.photos ?? []).map((p) => ({ id: p.id, caption: p.fileName }))
 	};
 }

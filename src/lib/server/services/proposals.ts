@@ -1,4 +1,4 @@
-import { and, desc, eq, inArray } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray } from 'drizzle-orm';
 import type { EstimateResult } from '../../estimating/types';
 import type { RateCard } from '../../estimating/rate-card';
 import { formatCents } from '../../estimating/money';
@@ -18,9 +18,11 @@ import {
 	customers,
 	estimates,
 	mailOutbox,
+	photos,
 	proposalAnswers,
 	proposals,
 	rateCards,
+	siteVisits,
 	sites
 } from '../db/schema';
 import { env } from '../env';
@@ -41,6 +43,8 @@ import {
 import { buildSnapshot, estimateDigest } from '../proposals/snapshot';
 import { hashProposalToken, newProposalToken, PROPOSAL_TOKEN } from '../proposals/token';
 import { Conflict, Forbidden, Gone, Invalid, NotFound } from './errors';
+import { readPhotoFile } from './visit-photos';
+import type { StoredFile } from '../storage';
 
 export type ProposalCaller = { id: string; companyId: string; role: Role; name?: string };
 
@@ -79,6 +83,7 @@ function depositOf(proposalId: string, checkouts: CheckoutRow[]): DepositState {
 
 type EstimateSource = {
 	estimate: typeof estimates.$inferSelect;
+	photos: { id: string; fileName: string }[];
 	address: string;
 	customerName: string;
 	customerEmail: string | null;
@@ -116,8 +121,22 @@ async function loadSource(
 	if (row.address === null) {
 		throw new Conflict('This estimate has no site, so it has no customer to send a proposal to.');
 	}
+	// The site-visit photos the salesperson marked for the customer (copies carry no EXIF).
+	const marked = await db
+		.select({ id: photos.id, fileName: photos.fileName })
+		.from(photos)
+		.innerJoin(siteVisits, eq(siteVisits.id, photos.visitId))
+		.where(
+			and(
+				eq(siteVisits.estimateId, estimateId),
+				eq(photos.companyId, companyId),
+				eq(photos.forProposal, true)
+			)
+		)
+		.orderBy(asc(photos.createdAt));
 	return {
 		estimate: row.estimate,
+		photos: marked,
 		address: row.address,
 		customerName: row.customerName ?? '',
 		customerEmail: row.customerEmail,
@@ -149,7 +168,8 @@ function snapshotOf(
 		taxPct: s.card.taxPct,
 		validUntil: o.validUntil,
 		issuedOn: o.now.toISOString().slice(0, 10),
-		version: o.version
+		version: o.version,
+		photos: s.photos
 	});
 }
 
@@ -438,6 +458,22 @@ async function byToken(db: Db | DbTx, token: string, lock = false) {
 		.limit(1);
 	const [row] = lock ? await q.for('update') : await q;
 	return row;
+}
+
+/**
+ * A photo the proposal shows, for the customer's page: only one its version lists, only while
+ * the link opens the proposal. Null for anything else (the route answers 404 alike).
+ */
+export async function proposalPhoto(
+	token: string,
+	photoId: string,
+	now = new Date()
+): Promise<StoredFile | null> {
+	const db = await getDb();
+	const p = await byToken(db, token);
+	assertOpenable(p, now);
+	if (!(p.snapshot.photos ?? []).some((x) => x.id === photoId)) return null;
+	return readPhotoFile(p.companyId, photoId, 'display');
 }
 
 export async function openProposal(token: string, now = new Date()): Promise<CustomerProposal> {
