@@ -176,6 +176,8 @@ describe('navFor', () => {
 			'/rates',
 			'/team',
 			'/outbox',
+			'/reports',
+			'/data',
 			'/settings'
 		]);
 	});

@@ -8,6 +8,7 @@ import type { EstimateResult } from '../../estimating/types';
 import { changeStatus, priceEstimateBody, type EstimateStatus } from '../services/estimates';
 import { markDone, saveLog, scheduleJob, type Caller } from '../services/jobs';
 import { savePlan } from '../services/roof-plans';
+import { recordJobHours } from '../services/reports';
 import { checklistItems } from '../../jobs/checklist';
 import { addDays, localToday } from '../../jobs/week';
 import { hashPassword } from '../auth/password';
@@ -142,5 +143,12 @@ async function sampleJob(caller: Caller, estimateId: string, status: EstimateSta
 	});
 	// After photos come through the site-visit upload path; the sample closes with a reason.
 	await markDone(caller, jobId, 'Sample job: after photos were kept on the crew phone.');
+	// The time sheet's hours, a little over the model's, so the hours report has a comparison.
+	await recordJobHours(
+		caller.companyId,
+		caller.id,
+		jobId,
+		Math.round(result.labour.hours * 11) / 10
+	);
 	if (status === 'paid') await changeStatus(caller, estimateId, 'paid');
 }
