@@ -55,6 +55,11 @@ export const ACCESS: readonly { route: string; roles: Access }[] = [
 	{ route: '/rates', roles: ['owner'] },
 	{ route: '/team', roles: ['owner'] },
 	{ route: '/settings', roles: ['owner'] },
+	// The owner's books: reports with their tables' CSV, and the lists' CSV export and import.
+	{ route: '/reports', roles: ['owner'] },
+	{ route: '/reports/[table]', roles: ['owner'] },
+	{ route: '/data', roles: ['owner'] },
+	{ route: '/data/[kind]', roles: ['owner'] },
 	{ route: '/api/health', roles: PUBLIC },
 	{ route: '/api/me', roles: ROLES },
 	{ route: '/api/docs', roles: OFFICE },
@@ -143,6 +148,8 @@ const NAV: readonly NavItem[] = [
 	{ href: '/rates', label: 'Rates' },
 	{ href: '/team', label: 'Team' },
 	{ href: '/outbox', label: 'Outbox' },
+	{ href: '/reports', label: 'Reports' },
+	{ href: '/data', label: 'Import & export' },
 	{ href: '/settings', label: 'Settings' }
 ];
 

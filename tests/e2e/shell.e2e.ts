@@ -35,7 +35,18 @@ async function signInAs(email: string, password = DEMO_PASSWORD) {
 const navOf = () => page.locator('#main-nav a').allInnerTexts();
 
 const EXPECTED_NAV = {
-	owner: ['Today', 'Sites', 'Estimates', 'Schedule', 'Crew sheets', 'Rates', 'Team', 'Settings'],
+	owner: [
+		'Today',
+		'Sites',
+		'Estimates',
+		'Schedule',
+		'Crew sheets',
+		'Rates',
+		'Team',
+		'Reports',
+		'Import & export',
+		'Settings'
+	],
 	estimator: ['Today', 'Sites', 'Estimates'],
 	sales: ['Today', 'Sites', 'Estimates', 'Schedule'],
 	crew: ['Today', 'Crew sheets']

@@ -47,6 +47,11 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
 	'/rates': ['owner'],
 	'/team': ['owner'],
 	'/settings': ['owner'],
+	// The owner's books: reports, their tables' CSV, and the lists' export and import.
+	'/reports': ['owner'],
+	'/reports/[table]': ['owner'],
+	'/data': ['owner'],
+	'/data/[kind]': ['owner'],
 	'/api/health': 'public',
 	'/api/me': ALL,
 	'/api/docs': OFFICE,
@@ -126,7 +131,9 @@ function fillIds(pattern: string): string {
 		.replace(/^\/api\/jobs\/\[id\]/, `/api/jobs/${ids.job}`)
 		.replace('/roof-plans/[version]', '/roof-plans/latest')
 		.replace('/tiles/[z]/[x]/[y]', '/tiles/0/0/0.webp')
-		.replace('/photos/[id]/[rendition]', `/photos/${ids.photo}/thumb`);
+		.replace('/photos/[id]/[rendition]', `/photos/${ids.photo}/thumb`)
+		.replace('/reports/[table]', '/reports/pipeline')
+		.replace('/data/[kind]', '/data/customers');
 	if (path.includes('[')) throw new Error(`Give ${pattern} a real sample id in fillIds.`);
 	return path;
 }

@@ -50,6 +50,16 @@ const customerData = (token: string) => getText(`/p/${token}/__data.json`, '');
 /** A second estimate whose site visit is confirmed before the fuzz starts. */
 let confirmedId = '';
 const visit = { photoId: '', facet: {} as Record<string, string> };
+/** A done job for the reports' hours action; its first recorded hours add the one row. */
+const books = { doneJob: '', hoursRow: false };
+const BOOKS_CUSTOMERS = 'customer_ref,name,email,phone,notes\r\nf1,Fuzz Import,,,';
+const BOOKS_SITES =
+	'site_ref,customer_ref,address,lat,lon,notes,gate_code,pets,water_source,no_gutters,plants_to_protect,pool,power_line\r\n,f1,1 Fuzz Row,35.52,-74.46,,,,,,,,';
+const booksFingerprint = async () =>
+	[
+		(await getText('/data/customers', ownerCookie)).text,
+		(await getText('/data/sites', ownerCookie)).text
+	].join('\n');
 let before: Record<string, number> = {};
 /** Writes the fuzz made on purpose (answers 2xx/3xx), per table. */
 const accepted: Record<string, number> = {};
@@ -580,6 +590,43 @@ const CASES: FuzzCase[] = [
 		fingerprint: async () =>
 			(await getText(`/estimates/${bill.estimateId}/__data.json`, ownerCookie)).text,
 		grows: () => (bill.paid ? [] : ((bill.paid = true), ['invoice_payments']))
+	},
+	{
+		route: '/data',
+		action: 'preview',
+		path: () => '/data?/preview',
+		cookie: () => ownerCookie,
+		fields: ['customers', 'sites'],
+		valid: () => ({ customers: BOOKS_CUSTOMERS, sites: BOOKS_SITES }),
+		fingerprint: booksFingerprint
+	},
+	{
+		route: '/data',
+		action: 'import',
+		path: () => '/data?/import',
+		cookie: () => ownerCookie,
+		fields: ['customers', 'sites'],
+		valid: () => ({ customers: BOOKS_CUSTOMERS, sites: BOOKS_SITES }),
+		fingerprint: booksFingerprint,
+		grows: (r) => {
+			const m = /Imported (\d+) customers? and (\d+) sites?/.exec(r.text);
+			return m
+				? [
+						...Array<string>(Number(m[1])).fill('customers'),
+						...Array<string>(Number(m[2])).fill('sites')
+					]
+				: [];
+		}
+	},
+	{
+		route: '/reports',
+		action: 'hours',
+		path: () => '/reports?/hours',
+		cookie: () => ownerCookie,
+		fields: ['jobId', 'hours'],
+		valid: () => ({ jobId: books.doneJob, hours: '3.5' }),
+		fingerprint: async () => (await getText('/reports/__data.json', ownerCookie)).text,
+		grows: () => (books.hoursRow ? [] : ((books.hoursRow = true), ['job_hours']))
 	}
 ];
 
@@ -743,6 +790,17 @@ beforeAll(async () => {
 		access: f.access,
 		stories: String(f.stories)
 	};
+	// A done job for the reports' hours action.
+	books.doneJob = await scheduleViaForm(server.url, ownerCookie, {
+		estimateId: await acceptedEstimate(server.url, prep.ownerToken, site),
+		date: today,
+		crewIds: [jobs.crewId]
+	});
+	const closedForBooks = await post(`/crew/${books.doneJob}?/done`, ownerCookie, {
+		encoding: 'urlencoded',
+		fields: [['reason', { kind: 'text', v: 'Fuzz set-up: photos kept on the crew phone.' }]]
+	});
+	if (closedForBooks.status !== 200) throw new Error(`done: ${closedForBooks.status}`);
 	// Counted with the server stopped (PGlite opens a data directory in one process at a time).
 	await server.stop();
 	before = await tableCounts(dataDir);

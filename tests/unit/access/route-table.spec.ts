@@ -180,6 +180,8 @@ describe('navFor', () => {
 			'/rates',
 			'/team',
 			'/outbox',
+			'/reports',
+			'/data',
 			'/settings'
 		]);
 	});

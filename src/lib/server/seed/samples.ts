@@ -9,6 +9,7 @@ import { recordPayment } from '../services/balance';
 import { changeStatus, priceEstimateBody, type EstimateStatus } from '../services/estimates';
 import { markDone, saveLog, scheduleJob, type Caller } from '../services/jobs';
 import { savePlan } from '../services/roof-plans';
+import { recordJobHours } from '../services/reports';
 import { checklistItems } from '../../jobs/checklist';
 import { addDays, localToday } from '../../jobs/week';
 import { hashPassword } from '../auth/password';
@@ -147,6 +148,13 @@ async function sampleJob(caller: Caller, estimateId: string, status: EstimateSta
 		jobId,
 		'Sample job: after photos were kept on the crew phone.',
 		process.env.ORIGIN || 'http://localhost:3000'
+	);
+	// The time sheet's hours, a little over the model's, so the hours report has a comparison.
+	await recordJobHours(
+		caller.companyId,
+		caller.id,
+		jobId,
+		Math.round(result.labour.hours * 11) / 10
 	);
 	if (status === 'paid')
 		await recordPayment(caller, estimateId, { method: 'cheque', reference: 'Cheque 1042' });

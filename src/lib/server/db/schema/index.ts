@@ -9,3 +9,4 @@ export * from './jobs';
 export * from './proposals';
 export * from './site-visits';
 export * from './billing';
+export * from './job-hours';
