@@ -4,6 +4,7 @@ import { planeForRing } from '../estimating/local-plane';
 import { squareCorners } from '../estimating/square-corners';
 import { M_PER_FT } from '../estimating/units';
 import type { PlanFacet } from '../schemas/roof-plan';
+import type { OutlineSideMark } from './editor-map';
 
 /** What the estimator chose for a traced outline. */
 export interface OutlineChoices {
@@ -70,7 +71,7 @@ export function roofFromOutline(
 	c: OutlineChoices,
 	idPrefix: string
 ): OutlineRoof {
-	const ring = c.square ? squareCorners(traced) : traced;
+	const ring = workingRing(traced, c);
 	const r = facetsFromFootprint({
 		ring,
 		form: c.form,
@@ -101,5 +102,38 @@ export function firstChoices(pitch: number, sides: number): OutlineChoices {
 		gableSides: [],
 		overhangM: 0,
 		square: sides >= 4
+	};
+}
+
+/** The ring the facets are made from: squared when asked. */
+export function workingRing(traced: Position[], c: OutlineChoices): Position[] {
+	return c.square ? squareCorners(traced) : traced;
+}
+
+/** The map's side buttons: one per side at its middle, pressed where it is a gable end. */
+export function sideMarks(traced: Position[], c: OutlineChoices): OutlineSideMark[] {
+	if (c.form === 'flat') return [];
+	const ring = workingRing(traced, c);
+	return ring.slice(0, -1).map((p, i) => {
+		const q = ring[i + 1];
+		const gable = c.form === 'gable' && c.gableSides.includes(i);
+		return {
+			at: [(p[0] + q[0]) / 2, (p[1] + q[1]) / 2],
+			text: gable ? `${i + 1} · gable` : String(i + 1),
+			label: `Side ${i + 1} ends in a gable`,
+			pressed: gable
+		};
+	});
+}
+
+/** Tapping a side: it becomes a gable end (a hip roof turns gable), or stops being one. */
+export function pickSide(c: OutlineChoices, side: number): OutlineChoices {
+	if (c.form !== 'gable') return { ...c, form: 'gable', gableSides: [side] };
+	const on = c.gableSides.includes(side);
+	return {
+		...c,
+		gableSides: on
+			? c.gableSides.filter((g) => g !== side)
+			: [...c.gableSides, side].sort((a, b) => a - b)
 	};
 }
