@@ -128,3 +128,76 @@ describe('a hip house measured from its outline', () => {
 		expect(est.status()).toBe(200);
 	});
 });
+
+describe('a gable house measured from its outline, gable ends tapped on the map', () => {
+	// h01: a 6/12 shingle gable, 14 m × 9.6 m, gable walls on the short sides; no plan yet.
+	const id = 'h01';
+	const facets = facetsOf(id);
+	const truth = house(id)!.properties;
+
+	it('tap the two short sides on the map: two rectangles within 0.5% of the truth', async () => {
+		const r = await page.request.get(`${server.url}/api/sites`);
+		const { sites } = (await r.json()) as { sites: { id: string; address: string }[] };
+		const site = sites.find((s) => s.address === truth.address)!;
+		await page.goto(`${server.url}/sites/${site.id}/roof`);
+		await page.waitForFunction(() => window.__clearpitchMap?.kind === 'maplibre', null, {
+			timeout: 30_000
+		});
+		const rows = page.locator('tbody tr[data-facet-row]');
+		expect(await rows.count()).toBe(0);
+
+		const ring = outerRing(facets);
+		expect(ring).toHaveLength(4);
+		const xs = ring.map((p) => p[0]);
+		const ys = ring.map((p) => p[1]);
+		await page.evaluate((b) => window.__clearpitchMap!.fitBounds(b, 100), [
+			Math.min(...xs),
+			Math.min(...ys),
+			Math.max(...xs),
+			Math.max(...ys)
+		] as [number, number, number, number]);
+		await page.keyboard.press('o');
+		await page.getByRole('button', { name: /Finish/ }).waitFor();
+		for (const p of ring) {
+			const s = await page.evaluate((c) => window.__clearpitchMap!.project(c), p);
+			await page.mouse.move(s.x, s.y, { steps: 2 });
+			await page.mouse.click(s.x, s.y);
+		}
+		await page.keyboard.press('Enter');
+		await page.getByTestId('roof-outline-panel').waitFor();
+		await expect.poll(() => rows.count()).toBe(4);
+
+		// The short sides, by their length on screen (plan lengths scale alike at one zoom).
+		const px = await Promise.all(
+			ring.map((p) => page.evaluate((c) => window.__clearpitchMap!.project(c), p))
+		);
+		const len = (i: number) => {
+			const a = px[i];
+			const b = px[(i + 1) % px.length];
+			return Math.hypot(b.x - a.x, b.y - a.y);
+		};
+		const short = [0, 1, 2, 3].filter((i) => len(i) < len((i + 1) % 4));
+		expect(short).toHaveLength(2);
+		const buttons = page.locator('.cp-side-button');
+		expect(await buttons.count()).toBe(4);
+		for (const i of short) await buttons.nth(i).click();
+		await expect.poll(() => rows.count()).toBe(2);
+		await page.getByLabel('Pitch of every slope').selectOption('6');
+		await page.getByTestId('outline-done').click();
+
+		await page.getByTestId('save-plan').click();
+		await expect
+			.poll(() => page.getByTestId('save-status').innerText())
+			.toMatch(/Saved as version 1/);
+		const latest = await page.request.get(`${server.url}/api/sites/${site.id}/roof-plans/latest`);
+		const plan = (await latest.json()).plan as {
+			facets: { pitch: number; edges: (string | null)[] }[];
+			totals: { slopedAreaFt2: number };
+		};
+		expect(plan.facets).toHaveLength(2);
+		for (const f of plan.facets)
+			expect([...f.edges].sort()).toEqual(['eave', 'rake', 'rake', 'ridge']);
+		// Truth: slopedAreaFt2 of h01 in geodata/scene.geojson (GeographicLib).
+		expect(rel(plan.totals.slopedAreaFt2, truth.slopedAreaFt2)).toBeLessThan(0.005);
+	});
+});
