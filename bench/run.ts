@@ -6,6 +6,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import { benchApi } from './api';
 import { benchEditor, editorTable } from './editor';
+import { benchFootprint, footprintTable, FOOTPRINT_TARGET_MS } from './footprint';
 import { benchLists, benchMixed } from './load';
 import { benchModel } from './model';
 
@@ -39,6 +40,11 @@ console.log('Editor: live totals, snapping, bundle sizes, time to first map…')
 const editor = await benchEditor({ browser: true });
 const editorMd = editorTable(editor);
 
+console.log('Roof from outline: last corner to facets, 4, 8 and 12 corners…');
+const footprint = benchFootprint();
+const footprintMd = footprintTable(footprint);
+const footprintOk = footprint.every((r) => r.p95Ms < FOOTPRINT_TARGET_MS);
+
 const ok = (pass: boolean) => (pass ? 'met' : '**missed**');
 const modelOk = model.estimatesPerSec >= MODEL_TARGET;
 const ratioOk = medianRatio <= RATIO_TARGET;
@@ -70,8 +76,10 @@ const setting =
 	`same ${fmt(api.bodyBytes / 1024, 1)} KB body and API token for both, built server on PGlite; ` +
 	`${os.cpus().length} × ${os.cpus()[0]?.model.trim() ?? 'CPU'}, Node ${process.version}, load average ${fmt(loadBefore, 1)} → ${fmt(os.loadavg()[0], 1)}, ${new Date().toISOString().slice(0, 10)}.`;
 
-const md = `# Benchmarks\n\n\`npm run bench\` (after \`npx vite build\`).\n\n${table}\n\n${setting}\n\n## Large lists\n\n${listTable}\n\n## Roof-plan editor\n\n${editorMd}\n`;
-console.log('\n' + table + '\n\n' + setting + '\n\n' + listTable + '\n\n' + editorMd);
+const md = `# Benchmarks\n\n\`npm run bench\` (after \`npx vite build\`).\n\n${table}\n\n${setting}\n\n## Large lists\n\n${listTable}\n\n## Roof-plan editor\n\n${editorMd}\n\n## Roof from outline\n\n${footprintMd}\n`;
+console.log(
+	'\n' + table + '\n\n' + setting + '\n\n' + listTable + '\n\n' + editorMd + '\n\n' + footprintMd
+);
 fs.writeFileSync(new URL('./results.md', import.meta.url), md);
 console.log('\nWritten to bench/results.md');
-if (!modelOk || !ratioOk || !mixedOk || !listsOk) process.exitCode = 1;
+if (!modelOk || !ratioOk || !mixedOk || !listsOk || !footprintOk) process.exitCode = 1;

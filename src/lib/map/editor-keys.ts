@@ -35,7 +35,8 @@ export type EditorCommand =
 	| { name: 'pick-corner'; step: 1 | -1 }
 	| { name: 'edit-corners' }
 	| { name: 'deselect' }
-	| { name: 'start-drawing' };
+	| { name: 'start-drawing' }
+	| { name: 'start-outline' };
 
 export type KeyAction = {
 	command: EditorCommand;
@@ -101,6 +102,7 @@ export function editorKey(e: KeyPress, s: EditorKeyState): KeyAction | null {
 		return act({ name: 'deselect' }, false, false);
 	}
 	if ((key === 'n' || key === 'N') && !onRow) return act({ name: 'start-drawing' });
+	if ((key === 'o' || key === 'O') && !onRow) return act({ name: 'start-outline' });
 	return null;
 }
 

@@ -31,6 +31,11 @@ export interface EditorMap {
 	/** Deletes the selected corner if one is chosen, else reports the facet for deletion. */
 	deleteSelection(): 'corner' | 'facet' | 'none';
 	setSnapping(on: boolean): void;
+	/**
+	 * Buttons on the sides of a traced outline, so a gable end is chosen by tapping its side;
+	 * null takes them away.
+	 */
+	showOutlineSides(sides: readonly OutlineSideMark[] | null, onpick: (side: number) => void): void;
 	readonly drawing: boolean;
 	fitTo(facets: readonly PlanFacet[]): void;
 	/** The focusable map surface, for keyboard users. */
@@ -45,6 +50,34 @@ export interface FacetLabel {
 	text: string;
 	detail: string;
 	growth: PlanFacet['growth'];
+}
+
+export interface OutlineSideMark {
+	/** Middle of the side, [lon, lat]. */
+	at: [number, number];
+	text: string;
+	/** Accessible name, e.g. "Side 2 ends in a gable". */
+	label: string;
+	pressed: boolean;
+}
+
+/** One button per side; the same element whichever map draws it (text only, never HTML). */
+export function sideButton(mark: OutlineSideMark, onpick: () => void): HTMLButtonElement {
+	const b = document.createElement('button');
+	b.type = 'button';
+	b.className = 'cp-side-button';
+	b.textContent = mark.text;
+	b.setAttribute('aria-label', mark.label);
+	b.setAttribute('aria-pressed', String(mark.pressed));
+	for (const ev of ['mousedown', 'touchstart', 'pointerdown', 'dblclick'] as const) {
+		// The map must not start a pan or a selection under the button.
+		b.addEventListener(ev, (e) => e.stopPropagation());
+	}
+	b.addEventListener('click', (e) => {
+		e.stopPropagation();
+		onpick();
+	});
+	return b;
 }
 
 export interface EditorMapEvents {

@@ -122,6 +122,24 @@ export class EditorState {
 		this.live = null;
 	}
 
+	/**
+	 * Puts one group of facets in place of another as one undoable change: the planes made from
+	 * an outline, made again each time its roof form, pitch or overhang changes. New facets take
+	 * the last-used material and grades, like a drawn one.
+	 */
+	swapGroup(
+		oldIds: readonly string[],
+		next: ReadonlyArray<Pick<PlanFacet, 'id' | 'label' | 'geometry' | 'pitch' | 'edges'>>
+	) {
+		const keep = this.facets.filter((f) => !oldIds.includes(f.id));
+		const made = next.map((f) => ({ ...this.#defaults(f.id), ...f, edges: [...f.edges] }));
+		this.#commit([...keep, ...made]);
+		if (this.selectedId && !this.facets.some((f) => f.id === this.selectedId)) {
+			this.selectedId = null;
+		}
+		this.live = null;
+	}
+
 	remove(id: string) {
 		if (!this.facets.some((f) => f.id === id)) return;
 		this.#commit(this.facets.filter((f) => f.id !== id));

@@ -4,7 +4,13 @@
  */
 import type { Polygon } from 'geojson';
 import type { PlanFacet } from '../schemas/roof-plan';
-import type { EditorMap, EditorMapOptions, FacetLabel, MapTestHandle } from './editor-map';
+import {
+	sideButton,
+	type EditorMap,
+	type EditorMapOptions,
+	type FacetLabel,
+	type MapTestHandle
+} from './editor-map';
 import { EDGE_STYLES, MAX_VIEW_ZOOM_256 } from './imagery';
 import { boundsOf, createBaseMap, facetStyle, L, labelMarker, toLatLngs } from './leaflet-base';
 
@@ -50,6 +56,7 @@ export async function createLeafletEditor(opts: EditorMapOptions): Promise<Edito
 	const layers = new Map<string, L.Polygon>();
 	const labelLayer = L.layerGroup().addTo(map);
 	const edgeLayer = L.layerGroup().addTo(map);
+	const sideLayer = L.layerGroup().addTo(map);
 	let facets: readonly PlanFacet[] = [];
 	let selected: string | null = null;
 	let drawing = false;
@@ -115,6 +122,23 @@ export async function createLeafletEditor(opts: EditorMapOptions): Promise<Edito
 			if (selected === id) return;
 			selected = id;
 			render();
+		},
+		showOutlineSides(sides, onpick) {
+			sideLayer.clearLayers();
+			sides?.forEach((s, i) => {
+				const icon = L.divIcon({
+					html: sideButton(s, () => onpick(i)),
+					className: '',
+					// The button sizes itself (44 px touch target); centre it on the side.
+					iconSize: undefined,
+					iconAnchor: [22, 22]
+				});
+				L.marker([s.at[1], s.at[0]], {
+					icon,
+					keyboard: false,
+					...({ pmIgnore: true } as object)
+				}).addTo(sideLayer);
+			});
 		},
 		highlightEdge(facetId, segment) {
 			edgeLayer.clearLayers();

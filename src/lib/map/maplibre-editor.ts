@@ -19,7 +19,13 @@ import './maplibre-editor.css';
 import './map-labels.css';
 import type { Feature, FeatureCollection, Polygon, Position } from 'geojson';
 import type { PlanFacet } from '../schemas/roof-plan';
-import type { EditorMap, EditorMapOptions, FacetLabel, MapTestHandle } from './editor-map';
+import {
+	sideButton,
+	type EditorMap,
+	type EditorMapOptions,
+	type FacetLabel,
+	type MapTestHandle
+} from './editor-map';
 import { DRAW_STYLES, growthColour } from './draw-styles';
 import { EDGE_STYLES, MAX_VIEW_ZOOM_256 } from './imagery';
 import { labelPoint } from './label-point';
@@ -140,6 +146,7 @@ export async function createMapLibreEditor(opts: EditorMapOptions): Promise<Edit
 	const labels = new Map<string, Marker>();
 	const labelShapes = new Map<string, Polygon>();
 	const segmentMarkers: Marker[] = [];
+	const sideMarkers: Marker[] = [];
 	let facetsNow: readonly PlanFacet[] = [];
 
 	map.addSource('cp-snap', { type: 'geojson', data: emptyFc() });
@@ -558,6 +565,14 @@ export async function createMapLibreEditor(opts: EditorMapOptions): Promise<Edit
 			if (!draw || drawState) return;
 			if (directState && directState.featureId === id) return;
 			draw.changeMode('simple_select', { featureIds: id ? [id] : [] });
+		},
+		showOutlineSides(sides, onpick) {
+			for (const m of sideMarkers.splice(0)) m.remove();
+			sides?.forEach((s, i) => {
+				sideMarkers.push(
+					new Marker({ element: sideButton(s, () => onpick(i)) }).setLngLat(s.at).addTo(map)
+				);
+			});
 		},
 		highlightEdge(facetId, segment) {
 			for (const m of segmentMarkers.splice(0)) m.remove();

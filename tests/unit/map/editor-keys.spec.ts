@@ -151,6 +151,17 @@ describe('N', () => {
 	});
 });
 
+describe('O', () => {
+	it('starts a roof from an outline, except while typing, drawing, read-only or on a row', () => {
+		expect(name(press('o', 'map'), browse)).toBe('start-outline');
+		expect(name(press('O', 'other', { shiftKey: true }), selected)).toBe('start-outline');
+		expect(editorKey(press('o', 'row'), browse)).toBeNull();
+		expect(editorKey(press('o', 'typing'), browse)).toBeNull();
+		expect(editorKey(press('o', 'map'), drawing)).toBeNull();
+		expect(editorKey(press('o', 'map'), { ...browse, readOnly: true })).toBeNull();
+	});
+});
+
 describe('keyTarget', () => {
 	// Stand-ins for elements: `closest` answers for the selectors the element would match.
 	const el = (matches: string[], classes: string[] = []) => ({
