@@ -51,6 +51,7 @@ export const ACCESS: readonly { route: string; roles: Access }[] = [
 	{ route: '/rates', roles: ['owner'] },
 	{ route: '/team', roles: ['owner'] },
 	{ route: '/settings', roles: ['owner'] },
+	{ route: '/settings/backup', roles: ['owner'] },
 	{ route: '/api/health', roles: PUBLIC },
 	{ route: '/api/me', roles: ROLES },
 	{ route: '/api/docs', roles: OFFICE },

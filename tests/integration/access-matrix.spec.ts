@@ -44,6 +44,7 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
 	'/rates': ['owner'],
 	'/team': ['owner'],
 	'/settings': ['owner'],
+	'/settings/backup': ['owner'],
 	'/api/health': 'public',
 	'/api/me': ALL,
 	'/api/docs': OFFICE,
