@@ -10,6 +10,7 @@ import { customers, estimates, jobLogs, jobs, sites, users, type SiteFlags } fro
 import { Conflict, Forbidden, Invalid, NotFound } from './errors';
 import { countAfterPhotos } from './job-photos';
 import { mailJobChange } from './job-mail';
+import { auditStatus } from './audit';
 
 export type Caller = { id: string; companyId: string; role: Role; name: string };
 
@@ -120,6 +121,15 @@ export async function scheduleJob(
 			.returning({ id: estimates.id });
 		if (!moved.length)
 			throw new Conflict('Someone changed this estimate at the same time; reload.');
+		await auditStatus(
+			tx,
+			caller.companyId,
+			{ userId: caller.id },
+			input.estimateId,
+			'accepted',
+			'scheduled',
+			`job on ${input.date}`
+		);
 		const [row] = await tx
 			.insert(jobs)
 			.values({
@@ -501,6 +511,15 @@ export async function markDone(
 			.where(and(eq(estimates.id, j.estimateId), eq(estimates.status, 'scheduled')))
 			.returning({ id: estimates.id });
 		if (!moved.length) throw new Conflict('The estimate is no longer scheduled; reload.');
+		await auditStatus(
+			tx,
+			caller.companyId,
+			{ userId: caller.id },
+			j.estimateId,
+			'scheduled',
+			'done',
+			reason ? `done with a reason: ${reason}` : 'job done'
+		);
 		const e = entry('done', caller, planOf(j), reason ? { reason } : {});
 		await tx
 			.update(jobs)

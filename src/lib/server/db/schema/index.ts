@@ -8,3 +8,4 @@ export * from './invoices';
 export * from './jobs';
 export * from './proposals';
 export * from './site-visits';
+export * from './audit';
