@@ -52,6 +52,7 @@ export const ACCESS: readonly { route: string; roles: Access }[] = [
 	{ route: '/team', roles: ['owner'] },
 	{ route: '/settings', roles: ['owner'] },
 	{ route: '/settings/backup', roles: ['owner'] },
+	{ route: '/audit', roles: ['owner'] },
 	{ route: '/api/health', roles: PUBLIC },
 	{ route: '/api/me', roles: ROLES },
 	{ route: '/api/docs', roles: OFFICE },
@@ -138,7 +139,8 @@ const NAV: readonly NavItem[] = [
 	{ href: '/rates', label: 'Rates' },
 	{ href: '/team', label: 'Team' },
 	{ href: '/outbox', label: 'Outbox' },
-	{ href: '/settings', label: 'Settings' }
+	{ href: '/settings', label: 'Settings' },
+	{ href: '/audit', label: 'Audit log' }
 ];
 
 /** The links a role sees: read from ACCESS, so a link never offers what the guard refuses. */

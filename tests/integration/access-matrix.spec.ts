@@ -45,6 +45,7 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
 	'/team': ['owner'],
 	'/settings': ['owner'],
 	'/settings/backup': ['owner'],
+	'/audit': ['owner'],
 	'/api/health': 'public',
 	'/api/me': ALL,
 	'/api/docs': OFFICE,

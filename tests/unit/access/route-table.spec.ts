@@ -176,7 +176,8 @@ describe('navFor', () => {
 			'/rates',
 			'/team',
 			'/outbox',
-			'/settings'
+			'/settings',
+			'/audit'
 		]);
 	});
 });
