@@ -51,6 +51,29 @@ const visit = { photoId: '', facet: {} as Record<string, string> };
 let before: Record<string, number> = {};
 /** Writes the fuzz made on purpose (answers 2xx/3xx), per table. */
 const accepted: Record<string, number> = {};
+/**
+ * Forms whose accepted answer adds at most one audit row (none when nothing changed, e.g. the
+ * same role again); a refused one adds none, as the per-case fingerprint and the count below show.
+ */
+const AUDITED = new Set([
+	'/rates save',
+	'/settings imagery',
+	'/settings contact',
+	'/team invite',
+	'/team role',
+	'/team deactivate',
+	'/team reactivate',
+	'/team token',
+	'/team revoke',
+	'/account password',
+	'/schedule schedule',
+	'/crew/[id] done',
+	'/estimates/[id] status',
+	'/estimates/[id]/proposal send',
+	'/p/[token] decline',
+	'/estimates/[id]/visit confirm'
+]);
+let audited = 0;
 let client = 0;
 
 /** With the local mail and payment fakes: the Outbox and the deposit need them. */
@@ -737,6 +760,7 @@ describe('form actions under fuzz', () => {
 					} else {
 						const grows = typeof c.grows === 'function' ? c.grows(r) : (c.grows ?? []);
 						for (const t of grows) accepted[t] = (accepted[t] ?? 0) + 1;
+						if (AUDITED.has(`${c.route} ${c.action}`)) audited++;
 					}
 				}),
 				{ numRuns: c.runs ?? RUNS }
@@ -848,6 +872,12 @@ describe('form actions under fuzz', () => {
 		// Sessions come and go with every sign-in and sign-out the fuzz makes.
 		delete expected.sessions;
 		delete after.sessions;
+		// The audit log: at most one row per accepted change, none from anything else.
+		const auditRows = after.audit_log - before.audit_log;
+		delete expected.audit_log;
+		delete after.audit_log;
+		expect(auditRows).toBeGreaterThan(0);
+		expect(auditRows).toBeLessThanOrEqual(audited);
 		expect(after).toEqual(expected);
 		server = await startServer(dataDir, serverEnv());
 	});
