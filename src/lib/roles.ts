@@ -60,6 +60,8 @@ export const ACCESS: readonly { route: string; roles: Access }[] = [
 	{ route: '/reports/[table]', roles: ['owner'] },
 	{ route: '/data', roles: ['owner'] },
 	{ route: '/data/[kind]', roles: ['owner'] },
+	{ route: '/settings/backup', roles: ['owner'] },
+	{ route: '/audit', roles: ['owner'] },
 	{ route: '/api/health', roles: PUBLIC },
 	{ route: '/api/me', roles: ROLES },
 	{ route: '/api/docs', roles: OFFICE },
@@ -150,7 +152,8 @@ const NAV: readonly NavItem[] = [
 	{ href: '/outbox', label: 'Outbox' },
 	{ href: '/reports', label: 'Reports' },
 	{ href: '/data', label: 'Import & export' },
-	{ href: '/settings', label: 'Settings' }
+	{ href: '/settings', label: 'Settings' },
+	{ href: '/audit', label: 'Audit log' }
 ];
 
 /** The links a role sees: read from ACCESS, so a link never offers what the guard refuses. */

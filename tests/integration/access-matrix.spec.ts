@@ -52,6 +52,8 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
 	'/reports/[table]': ['owner'],
 	'/data': ['owner'],
 	'/data/[kind]': ['owner'],
+	'/settings/backup': ['owner'],
+	'/audit': ['owner'],
 	'/api/health': 'public',
 	'/api/me': ALL,
 	'/api/docs': OFFICE,

@@ -63,6 +63,36 @@ const booksFingerprint = async () =>
 let before: Record<string, number> = {};
 /** Writes the fuzz made on purpose (answers 2xx/3xx), per table. */
 const accepted: Record<string, number> = {};
+/**
+ * Forms whose accepted answer adds audit rows: at most one (none when nothing changed, e.g. the
+ * same role again), or as many as AUDIT_ROWS says for a change that is two (a job closed is its
+ * move and its final invoice; a payment is the payment and the move to paid). A refused one adds
+ * none, as the per-case fingerprint and the count below show.
+ */
+const AUDIT_ROWS: Record<string, number> = {
+	'/crew/[id] done': 2,
+	'/estimates/[id] payment': 2
+};
+const AUDITED = new Set([
+	'/estimates/[id] payment',
+	'/rates save',
+	'/settings imagery',
+	'/settings contact',
+	'/team invite',
+	'/team role',
+	'/team deactivate',
+	'/team reactivate',
+	'/team token',
+	'/team revoke',
+	'/account password',
+	'/schedule schedule',
+	'/crew/[id] done',
+	'/estimates/[id] status',
+	'/estimates/[id]/proposal send',
+	'/p/[token] decline',
+	'/estimates/[id]/visit confirm'
+]);
+let audited = 0;
 let client = 0;
 
 /** With the local mail and payment fakes: the Outbox and the deposit need them. */
@@ -263,6 +293,12 @@ const teamFingerprint = async () => {
 };
 
 /** The moving job as the API shows it; remembers its revision so valid bodies stay current. */
+/** A schedule change e-mails the customer: one outbox row, unless it had this one already. */
+const jobMail = (r: { text: string }): string[] =>
+	/The customer has been e-mailed|The customer’s e-mail is in the outbox/.test(r.text)
+		? ['mail_outbox']
+		: [];
+
 async function movingFingerprint(): Promise<string> {
 	const r = await getText(`/api/jobs/${jobs.moving}`, ownerCookie);
 	const rev = /"revision":(\d+)/.exec(r.text);
@@ -438,7 +474,8 @@ const CASES: FuzzCase[] = [
 				(await getText(`/api/estimates/${jobs.schedulable}`, ownerCookie)).text,
 				(await getText('/schedule/__data.json', ownerCookie)).text
 			].join('\n'),
-		grows: ['jobs']
+		// The job, and the customer's e-mail of its date.
+		grows: (r) => ['jobs', ...jobMail(r)]
 	},
 	{
 		route: '/schedule',
@@ -454,7 +491,8 @@ const CASES: FuzzCase[] = [
 			windowEnd: '14:00',
 			crewIds: jobs.crewId
 		}),
-		fingerprint: movingFingerprint
+		fingerprint: movingFingerprint,
+		grows: jobMail
 	},
 	{
 		route: '/schedule',
@@ -468,7 +506,8 @@ const CASES: FuzzCase[] = [
 			reason: 'Rain forecast all morning',
 			newDate: ''
 		}),
-		fingerprint: movingFingerprint
+		fingerprint: movingFingerprint,
+		grows: jobMail
 	},
 	{
 		route: '/crew/[id]',
@@ -836,6 +875,8 @@ describe('form actions under fuzz', () => {
 					} else {
 						const grows = typeof c.grows === 'function' ? c.grows(r) : (c.grows ?? []);
 						for (const t of grows) accepted[t] = (accepted[t] ?? 0) + 1;
+						const key = `${c.route} ${c.action}`;
+						if (AUDITED.has(key)) audited += AUDIT_ROWS[key] ?? 1;
 					}
 				}),
 				{ numRuns: c.runs ?? RUNS }
@@ -949,6 +990,12 @@ describe('form actions under fuzz', () => {
 		// Sessions come and go with every sign-in and sign-out the fuzz makes.
 		delete expected.sessions;
 		delete after.sessions;
+		// The audit log: at most one row per accepted change, none from anything else.
+		const auditRows = after.audit_log - before.audit_log;
+		delete expected.audit_log;
+		delete after.audit_log;
+		expect(auditRows).toBeGreaterThan(0);
+		expect(auditRows).toBeLessThanOrEqual(audited);
 		expect(after).toEqual(expected);
 		server = await startServer(dataDir, serverEnv());
 	});

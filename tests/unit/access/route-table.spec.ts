@@ -182,7 +182,8 @@ describe('navFor', () => {
 			'/outbox',
 			'/reports',
 			'/data',
-			'/settings'
+			'/settings',
+			'/audit'
 		]);
 	});
 });

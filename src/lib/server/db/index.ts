@@ -15,10 +15,13 @@ type Opened = { db: Db; close: () => Promise<void>; kind: 'pglite' | 'postgres' 
 
 let opening: Promise<Opened> | undefined;
 
+/** How the server's connections name themselves to PostgreSQL, so a restore can see it running. */
+export const SERVER_APP_NAME = 'clearpitch';
+
 async function open(): Promise<Opened> {
 	const url = env.databaseUrl;
 	if (url) {
-		const pool = new pg.Pool({ connectionString: url, max: 10 });
+		const pool = new pg.Pool({ connectionString: url, max: 10, application_name: SERVER_APP_NAME });
 		const db = drizzlePg(pool, { schema }) as unknown as Db;
 		await migratePg(db as never, { migrationsFolder: env.migrationsDir });
 		return { db, kind: 'postgres', close: () => pool.end() };
@@ -51,6 +54,13 @@ async function open(): Promise<Opened> {
 export function getDb(): Promise<Db> {
 	opening ??= open();
 	return opening.then((o) => o.db);
+}
+
+/** The embedded database's own client (for its dump); null on PostgreSQL. */
+export async function pgliteClient(): Promise<PGlite | null> {
+	opening ??= open();
+	const o = await opening;
+	return o.kind === 'pglite' ? (o.db as unknown as { $client: PGlite }).$client : null;
 }
 
 export async function databaseKind(): Promise<Opened['kind']> {

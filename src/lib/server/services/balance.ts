@@ -1,5 +1,5 @@
 import { and, asc, desc, eq, isNotNull, sql } from 'drizzle-orm';
-import { pctOf } from '../../estimating/money';
+import { formatCents, pctOf } from '../../estimating/money';
 import type { EstimateResult } from '../../estimating/types';
 import type { BalanceView, PaymentMethod } from '../../types/balance';
 import { getDb, type Db } from '../db';
@@ -23,6 +23,7 @@ import { createMailTransport } from '../mail/transport';
 import { createCheckout, getPaymentsClient, type CheckoutRow } from '../payments';
 import { hashProposalToken, newProposalToken, PROPOSAL_TOKEN } from '../proposals/token';
 import { issueInvoice, type InvoiceLine } from './invoices';
+import { auditStatus, recordAudit } from './audit';
 import { Conflict, Forbidden, NotFound } from './errors';
 import type { Caller } from './estimates';
 
@@ -258,7 +259,7 @@ async function settle(
 		.onConflictDoNothing({ target: invoicePayments.invoiceId })
 		.returning({ id: invoicePayments.id });
 	if (!made) return false;
-	await tx
+	const moved = await tx
 		.update(estimates)
 		.set({ status: 'paid' })
 		.where(
@@ -267,7 +268,20 @@ async function settle(
 				eq(estimates.companyId, inv.companyId),
 				eq(estimates.status, 'done')
 			)
-		);
+		)
+		.returning({ id: estimates.id });
+	const how = p.method === 'card' ? 'paid by card' : `${p.method} recorded`;
+	const actor = p.by ? { userId: p.by } : { userId: null, name: 'Payment service' as const };
+	await recordAudit(tx, inv.companyId, actor, {
+		kind: 'invoice',
+		action: 'payment',
+		subjectId: inv.id,
+		summary: `Invoice ${inv.number}: ${formatCents(p.amountCents)} ${how}`,
+		detail: { method: p.method, amountCents: p.amountCents, reference: p.reference }
+	});
+	if (moved.length) {
+		await auditStatus(tx, inv.companyId, actor, inv.estimateId, 'done', 'paid', how);
+	}
 	await tx
 		.update(jobs)
 		.set({ status: 'paid' })

@@ -11,6 +11,8 @@ import type { CardRef, PlanRef, PriceOutcome, PriceTask } from '../pricing/price
 import type { PlanFacet } from '../../schemas/roof-plan';
 import { getPlanById } from './roof-plans';
 import { runPricing } from '../pricing/pool';
+import { auditStatus, recordAudit } from './audit';
+import { formatCents } from '../../estimating/money';
 
 export type { EstimateStatus };
 
@@ -75,21 +77,36 @@ async function storeDraft(
 	d: Extract<PriceOutcome, { kind: 'save' }>
 ): Promise<PricedEstimate> {
 	const db = await getDb();
-	const [row] = await db
-		.insert(estimates)
-		.values({
-			companyId: caller.companyId,
-			siteId: d.siteId,
-			roofPlanId: d.roofPlanId,
-			status: 'draft',
-			rateCardId: d.rateCard.id,
-			rateCardVersion: d.rateCard.version,
-			input: d.input,
-			result: d.result,
-			totalCents: d.result.price.totalCents,
-			createdBy: caller.id
-		})
-		.returning({ id: estimates.id, status: estimates.status });
+	const row = await db.transaction(async (tx) => {
+		const [made] = await tx
+			.insert(estimates)
+			.values({
+				companyId: caller.companyId,
+				siteId: d.siteId,
+				roofPlanId: d.roofPlanId,
+				status: 'draft',
+				rateCardId: d.rateCard.id,
+				rateCardVersion: d.rateCard.version,
+				input: d.input,
+				result: d.result,
+				totalCents: d.result.price.totalCents,
+				createdBy: caller.id
+			})
+			.returning({ id: estimates.id, status: estimates.status });
+		await recordAudit(
+			tx,
+			caller.companyId,
+			{ userId: caller.id },
+			{
+				kind: 'estimate',
+				action: 'priced',
+				subjectId: made.id,
+				summary: `Priced a draft estimate at ${formatCents(d.result.price.totalCents)} with rates version ${d.rateCard.version}`,
+				detail: { totalCents: d.result.price.totalCents, rateCardVersion: d.rateCard.version }
+			}
+		);
+		return made;
+	});
 	return { ...d.result, rateCard: d.rateCard, estimate: row };
 }
 
@@ -264,19 +281,22 @@ export async function changeStatus(
 	const viaJob = JOB_MOVES[to];
 	if (viaJob) throw new Conflict(viaJob, [{ path: 'status', message: viaJob }]);
 	const db = await getDb();
-	const moved = await db
-		.update(estimates)
-		.set({ status: to })
-		.where(
-			and(
-				eq(estimates.id, id),
-				eq(estimates.companyId, caller.companyId),
-				eq(estimates.status, from)
+	await db.transaction(async (tx) => {
+		const moved = await tx
+			.update(estimates)
+			.set({ status: to })
+			.where(
+				and(
+					eq(estimates.id, id),
+					eq(estimates.companyId, caller.companyId),
+					eq(estimates.status, from)
+				)
 			)
-		)
-		.returning({ id: estimates.id });
-	if (moved.length === 0) {
-		throw new Conflict('Someone changed this estimate at the same time; reload and try again.');
-	}
+			.returning({ id: estimates.id });
+		if (moved.length === 0) {
+			throw new Conflict('Someone changed this estimate at the same time; reload and try again.');
+		}
+		await auditStatus(tx, caller.companyId, { userId: caller.id }, id, from, to);
+	});
 	return (await getEstimate(caller.companyId, id))!;
 }

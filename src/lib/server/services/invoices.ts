@@ -3,6 +3,8 @@ import { z } from 'zod';
 import type { Db } from '../db';
 import { estimates, invoices, type InvoiceKind } from '../db/schema';
 import { Conflict, Invalid, NotFound, type Issue } from './errors';
+import { recordAudit, type AuditActor } from './audit';
+import { formatCents } from '../../estimating/money';
 
 /** A transaction or the database: issuing always runs inside one of the caller's choosing. */
 type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
@@ -119,7 +121,7 @@ export async function issueInvoice(
 			.from(estimates)
 			.where(and(eq(estimates.id, estimateId), eq(estimates.companyId, companyId)));
 		if (!est) throw new NotFound('No such estimate.');
-		return insertInvoice(tx, {
+		const issued = await insertInvoice(tx, {
 			companyId,
 			kind: 'invoice',
 			estimateId,
@@ -128,6 +130,14 @@ export async function issueInvoice(
 			taxCents: body.taxCents,
 			createdBy
 		});
+		await recordAudit(tx, companyId, invoiceActor(createdBy), {
+			kind: 'invoice',
+			action: 'issued',
+			subjectId: issued.id,
+			summary: `Issued invoice ${issued.number} for ${formatCents(issued.totalCents)}`,
+			detail: { number: issued.number, estimateId, totalCents: issued.totalCents }
+		});
+		return issued;
 	});
 }
 
@@ -165,7 +175,7 @@ export async function issueCreditNote(
 			throw new Conflict(
 				`This credit of ${credit} cents is more than the ${left} cents left on invoice ${inv.number}.`
 			);
-		return insertInvoice(tx, {
+		const issued = await insertInvoice(tx, {
 			companyId,
 			kind: 'credit_note',
 			estimateId: inv.estimateId,
@@ -174,8 +184,25 @@ export async function issueCreditNote(
 			taxCents: -body.taxCents,
 			createdBy
 		});
+		await recordAudit(tx, companyId, invoiceActor(createdBy), {
+			kind: 'invoice',
+			action: 'credit-note',
+			subjectId: issued.id,
+			summary: `Issued credit note ${issued.number} for ${formatCents(credit)} against invoice ${inv.number}`,
+			detail: {
+				number: issued.number,
+				invoiceNumber: inv.number,
+				estimateId: inv.estimateId,
+				creditedCents: credit
+			}
+		});
+		return issued;
 	});
 }
+
+/** Issued by a member, or by Clearpitch itself (the balance invoice sent when a job is done). */
+const invoiceActor = (createdBy: string | null): AuditActor =>
+	createdBy ? { userId: createdBy } : { userId: null, name: 'Clearpitch' };
 
 /** The company's invoices and credit notes for one estimate, in number order. */
 export async function invoicesOf(db: Db, companyId: string, estimateId: string) {

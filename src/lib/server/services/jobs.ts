@@ -18,6 +18,7 @@ import { Conflict, Forbidden, Invalid, NotFound } from './errors';
 import { issueFinalInvoice, trySendNow } from './balance';
 import { countAfterPhotos } from './job-photos';
 import { mailJobChange } from './job-mail';
+import { auditStatus } from './audit';
 
 export type Caller = { id: string; companyId: string; role: Role; name: string };
 
@@ -128,6 +129,15 @@ export async function scheduleJob(
 			.returning({ id: estimates.id });
 		if (!moved.length)
 			throw new Conflict('Someone changed this estimate at the same time; reload.');
+		await auditStatus(
+			tx,
+			caller.companyId,
+			{ userId: caller.id },
+			input.estimateId,
+			'accepted',
+			'scheduled',
+			`job on ${input.date}`
+		);
 		const [row] = await tx
 			.insert(jobs)
 			.values({
@@ -517,6 +527,15 @@ export async function markDone(
 			.where(and(eq(estimates.id, j.estimateId), eq(estimates.status, 'scheduled')))
 			.returning({ id: estimates.id });
 		if (!moved.length) throw new Conflict('The estimate is no longer scheduled; reload.');
+		await auditStatus(
+			tx,
+			caller.companyId,
+			{ userId: caller.id },
+			j.estimateId,
+			'scheduled',
+			'done',
+			reason ? `done with a reason: ${reason}` : 'job done'
+		);
 		const e = entry('done', caller, planOf(j), reason ? { reason } : {});
 		await tx
 			.update(jobs)

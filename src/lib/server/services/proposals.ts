@@ -45,6 +45,7 @@ import { hashProposalToken, newProposalToken, PROPOSAL_TOKEN } from '../proposal
 import { Conflict, Forbidden, Gone, Invalid, NotFound } from './errors';
 import { readPhotoFile } from './visit-photos';
 import type { StoredFile } from '../storage';
+import { auditStatus } from './audit';
 
 export type ProposalCaller = { id: string; companyId: string; role: Role; name?: string };
 
@@ -371,6 +372,15 @@ export async function sendProposal(
 		});
 		if (e.status === 'ready') {
 			await tx.update(estimates).set({ status: 'sent' }).where(eq(estimates.id, e.id));
+			await auditStatus(
+				tx,
+				caller.companyId,
+				{ userId: caller.id },
+				e.id,
+				'ready',
+				'sent',
+				`proposal version ${version}`
+			);
 		}
 		return { proposalId: p.id, version, created: true, mailId: queued.id };
 	});
@@ -547,10 +557,21 @@ export async function answerProposal(
 		if (!row) throw new Conflict('This proposal was already answered; nothing was changed.');
 		await tx.update(proposals).set({ status: answer.decision }).where(eq(proposals.id, p.id));
 		if (answer.decision === 'declined') {
-			await tx
+			const moved = await tx
 				.update(estimates)
 				.set({ status: 'declined' })
-				.where(and(eq(estimates.id, p.estimateId), eq(estimates.status, 'sent')));
+				.where(and(eq(estimates.id, p.estimateId), eq(estimates.status, 'sent')))
+				.returning({ id: estimates.id });
+			if (moved.length) {
+				await auditStatus(
+					tx,
+					p.companyId,
+					{ userId: null, name: 'The customer, on the proposal link' },
+					p.estimateId,
+					'sent',
+					'declined'
+				);
+			}
 		}
 		return publicAnswer(row);
 	});
@@ -599,7 +620,7 @@ export async function startDeposit(
 /** Inside the webhook's transaction: a paid deposit moves the sent estimate to `accepted`. */
 export async function onDepositChange(tx: DbTx, checkout: CheckoutRow): Promise<void> {
 	if (checkout.status !== 'complete' || checkout.paidAt === null) return;
-	await tx
+	const moved = await tx
 		.update(estimates)
 		.set({ status: 'accepted' })
 		.where(
@@ -608,5 +629,17 @@ export async function onDepositChange(tx: DbTx, checkout: CheckoutRow): Promise<
 				eq(estimates.companyId, checkout.companyId),
 				eq(estimates.status, 'sent')
 			)
+		)
+		.returning({ id: estimates.id });
+	if (moved.length) {
+		await auditStatus(
+			tx,
+			checkout.companyId,
+			{ userId: null, name: 'The payment service' },
+			checkout.estimateId,
+			'sent',
+			'accepted',
+			'deposit paid'
 		);
+	}
 }

@@ -2,6 +2,8 @@ import { and, desc, eq, max } from 'drizzle-orm';
 import type { RateCard } from '../../estimating/rate-card';
 import { getDb } from '../db';
 import { rateCards, users } from '../db/schema';
+import diff from 'microdiff';
+import { recordAudit } from './audit';
 
 export type StoredRateCard = {
 	id: string;
@@ -106,6 +108,12 @@ export async function saveRateCard(
 			.select({ top: max(rateCards.version) })
 			.from(rateCards)
 			.where(eq(rateCards.companyId, companyId));
+		const [previous] = top
+			? await tx
+					.select({ card: rateCards.card })
+					.from(rateCards)
+					.where(and(eq(rateCards.companyId, companyId), eq(rateCards.version, top)))
+			: [];
 		// The unique (company, version) constraint refuses a concurrent save of the same number.
 		const [inserted] = await tx
 			.insert(rateCards)
@@ -118,6 +126,33 @@ export async function saveRateCard(
 				createdBy: userId
 			})
 			.returning(columns);
+		const changes = previous ? diff(previous.card as RateCard, card) : [];
+		await recordAudit(
+			tx,
+			companyId,
+			{ userId },
+			{
+				kind: 'rate-card',
+				action: 'saved',
+				subjectId: inserted.id,
+				summary:
+					`Saved rates version ${inserted.version}` +
+					(previous
+						? ` (${changes.length} figure${changes.length === 1 ? '' : 's'} changed)`
+						: '') +
+					(note ? `: ${note}` : ''),
+				detail: {
+					version: inserted.version,
+					note,
+					// What moved from what, by the figure's place in the card (first 100).
+					changes: changes.slice(0, 100).map((c) => ({
+						path: c.path.join('.'),
+						from: 'oldValue' in c ? c.oldValue : null,
+						to: 'value' in c ? c.value : null
+					}))
+				}
+			}
+		);
 		return inserted;
 	});
 	invalidate(companyId);

@@ -9,6 +9,8 @@ import { estimates, roofPlans, sites, siteVisits, users } from '../db/schema';
 import { Conflict, Invalid, NotFound } from './errors';
 import { getEstimate, priceEstimateBody, type Caller } from './estimates';
 import { getPlanById, toCollection } from './roof-plans';
+import { recordAudit } from './audit';
+import { formatCents } from '../../estimating/money';
 
 /**
  * Site visits: the salesperson's check of an estimate's roof and site. A visit works on its own
@@ -365,6 +367,24 @@ export async function confirmVisit(caller: Caller, estimateId: string): Promise<
 					'The estimate changed at the same time (it was sent?); reload and look.'
 				);
 			}
+			await recordAudit(
+				tx,
+				caller.companyId,
+				{ userId: caller.id },
+				{
+					kind: 'estimate',
+					action: 'repriced',
+					subjectId: estimateId,
+					summary:
+						`Confirmed the site visit: price ${formatCents(e.result.price.totalCents)} → ` +
+						`${formatCents(result.price.totalCents)}, ${e.status} → ready`,
+					detail: {
+						from: { status: e.status, totalCents: e.result.price.totalCents },
+						to: { status: 'ready', totalCents: result.price.totalCents },
+						roofPlanVersion: next
+					}
+				}
+			);
 			await tx
 				.update(siteVisits)
 				.set({

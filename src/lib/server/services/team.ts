@@ -1,9 +1,10 @@
-import { and, asc, eq, ne } from 'drizzle-orm';
+import { and, asc, eq, isNull, ne } from 'drizzle-orm';
 import type { Role } from '$lib/roles';
 import { getDb } from '../db';
 import { apiTokens, sessions, users } from '../db/schema';
 import { dummyHash, hashPassword, verifyPassword } from '../auth/password';
 import { hashApiToken, newApiToken } from '../auth/tokens';
+import { recordAudit } from './audit';
 
 export class TeamError extends Error {
 	constructor(
@@ -50,17 +51,32 @@ export async function listTeam(companyId: string): Promise<TeamMember[]> {
 
 export async function inviteUser(
 	companyId: string,
-	input: { name: string; email: string; role: Role; password: string }
+	input: { name: string; email: string; role: Role; password: string },
+	actorId: string
 ) {
 	const db = await getDb();
 	const [taken] = await db.select({ id: users.id }).from(users).where(eq(users.email, input.email));
 	if (taken) throw new TeamError('Someone already has that e-mail address.', 'email');
 	const passwordHash = await hashPassword(input.password);
-	const [row] = await db
-		.insert(users)
-		.values({ companyId, name: input.name, email: input.email, role: input.role, passwordHash })
-		.returning({ id: users.id });
-	return row.id;
+	return db.transaction(async (tx) => {
+		const [row] = await tx
+			.insert(users)
+			.values({ companyId, name: input.name, email: input.email, role: input.role, passwordHash })
+			.returning({ id: users.id });
+		await recordAudit(
+			tx,
+			companyId,
+			{ userId: actorId },
+			{
+				kind: 'team',
+				action: 'invited',
+				subjectId: row.id,
+				summary: `Invited ${input.name} (${input.email}) as ${input.role}`,
+				detail: { name: input.name, email: input.email, role: input.role }
+			}
+		);
+		return row.id;
+	});
 }
 
 async function memberOf(companyId: string, userId: string) {
@@ -90,15 +106,35 @@ async function assertOtherOwner(companyId: string, userId: string) {
 	if (owners.length === 0) throw new TeamError('The company needs at least one active owner.');
 }
 
-export async function setRole(companyId: string, userId: string, role: Role) {
+export async function setRole(companyId: string, userId: string, role: Role, actorId: string) {
 	const u = await memberOf(companyId, userId);
+	if (u.role === role) return;
 	if (u.role === 'owner' && role !== 'owner') await assertOtherOwner(companyId, userId);
 	const db = await getDb();
-	await db.update(users).set({ role }).where(eq(users.id, userId));
+	await db.transaction(async (tx) => {
+		await tx.update(users).set({ role }).where(eq(users.id, userId));
+		await recordAudit(
+			tx,
+			companyId,
+			{ userId: actorId },
+			{
+				kind: 'team',
+				action: 'role',
+				subjectId: userId,
+				summary: `Changed ${u.name}'s role from ${u.role} to ${role}`,
+				detail: { name: u.name, from: u.role, to: role }
+			}
+		);
+	});
 }
 
 /** Deactivating ends every session and API token the user has at once. */
-export async function setActive(companyId: string, userId: string, active: boolean) {
+export async function setActive(
+	companyId: string,
+	userId: string,
+	active: boolean,
+	actorId: string
+) {
 	const u = await memberOf(companyId, userId);
 	if (!active && u.role === 'owner') await assertOtherOwner(companyId, userId);
 	const db = await getDb();
@@ -107,6 +143,23 @@ export async function setActive(companyId: string, userId: string, active: boole
 		if (!active) {
 			await tx.delete(sessions).where(eq(sessions.userId, userId));
 			await tx.update(apiTokens).set({ revokedAt: new Date() }).where(eq(apiTokens.userId, userId));
+		}
+		// Deactivating again still ends sessions (one may have been made since); only a change is logged.
+		if (u.active !== active) {
+			await recordAudit(
+				tx,
+				companyId,
+				{ userId: actorId },
+				{
+					kind: 'team',
+					action: active ? 'reactivated' : 'deactivated',
+					subjectId: userId,
+					summary: active
+						? `Reactivated ${u.name}`
+						: `Deactivated ${u.name}; their sessions and API tokens ended`,
+					detail: { name: u.name }
+				}
+			);
 		}
 	});
 }
@@ -126,6 +179,17 @@ export async function changePassword(
 	const passwordHash = await hashPassword(next);
 	await db.transaction(async (tx) => {
 		await tx.update(users).set({ passwordHash }).where(eq(users.id, userId));
+		await recordAudit(
+			tx,
+			u.companyId,
+			{ userId },
+			{
+				kind: 'team',
+				action: 'password',
+				subjectId: userId,
+				summary: `${u.name} changed their password; their other sessions ended`
+			}
+		);
 		await tx
 			.delete(sessions)
 			.where(
@@ -157,14 +221,53 @@ export async function listTokens(companyId: string) {
 export async function createToken(companyId: string, userId: string, name: string) {
 	const token = newApiToken();
 	const db = await getDb();
-	await db.insert(apiTokens).values({ companyId, userId, name, tokenHash: hashApiToken(token) });
+	await db.transaction(async (tx) => {
+		const [row] = await tx
+			.insert(apiTokens)
+			.values({ companyId, userId, name, tokenHash: hashApiToken(token) })
+			.returning({ id: apiTokens.id });
+		await recordAudit(
+			tx,
+			companyId,
+			{ userId },
+			{
+				kind: 'token',
+				action: 'created',
+				subjectId: row.id,
+				summary: `Created the API token "${name}"`,
+				detail: { name }
+			}
+		);
+	});
 	return token;
 }
 
-export async function revokeToken(companyId: string, tokenId: string) {
+export async function revokeToken(companyId: string, tokenId: string, actorId: string) {
 	const db = await getDb();
-	await db
-		.update(apiTokens)
-		.set({ revokedAt: new Date() })
-		.where(and(eq(apiTokens.id, tokenId), eq(apiTokens.companyId, companyId)));
+	await db.transaction(async (tx) => {
+		const [row] = await tx
+			.update(apiTokens)
+			.set({ revokedAt: new Date() })
+			.where(
+				and(
+					eq(apiTokens.id, tokenId),
+					eq(apiTokens.companyId, companyId),
+					isNull(apiTokens.revokedAt)
+				)
+			)
+			.returning({ id: apiTokens.id, name: apiTokens.name });
+		if (!row) return;
+		await recordAudit(
+			tx,
+			companyId,
+			{ userId: actorId },
+			{
+				kind: 'token',
+				action: 'revoked',
+				subjectId: row.id,
+				summary: `Revoked the API token "${row.name}"`,
+				detail: { name: row.name }
+			}
+		);
+	});
 }

@@ -26,7 +26,7 @@ export const actions: Actions = {
 		const values = formObject(await event.request.formData());
 		const parsed = imagerySchema.safeParse(values);
 		if (!parsed.success) return fail(400, { values, errors: fieldErrors(parsed.error) });
-		await setImagery(user.companyId, parsed.data.template, parsed.data.attribution);
+		await setImagery(user.companyId, parsed.data.template, parsed.data.attribution, user.id);
 		return { done: parsed.data.template ? 'Imagery source saved.' : 'Using the sample imagery.' };
 	},
 	contact: async (event) => {
@@ -36,7 +36,7 @@ export const actions: Actions = {
 		if (!parsed.success) {
 			return fail(400, { contact: { values, errors: fieldErrors(parsed.error) } });
 		}
-		await setContact(user.companyId, parsed.data);
+		await setContact(user.companyId, parsed.data, user.id);
 		return { contact: { done: 'Saved. Proposals sent from now on carry these details.' } };
 	}
 };

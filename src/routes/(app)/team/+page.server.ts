@@ -41,7 +41,7 @@ export const actions: Actions = {
 			return fail(400, { action: 'invite', values: keep, errors: fieldErrors(parsed.error) });
 		}
 		try {
-			await inviteUser(user.companyId, parsed.data);
+			await inviteUser(user.companyId, parsed.data, user.id);
 		} catch (e) {
 			return teamFail(e, 'invite');
 		}
@@ -53,7 +53,7 @@ export const actions: Actions = {
 		if (!parsed.success)
 			return fail(400, { action: 'role', message: parsed.error.issues[0].message });
 		try {
-			await setRole(user.companyId, parsed.data.userId, parsed.data.role);
+			await setRole(user.companyId, parsed.data.userId, parsed.data.role, user.id);
 		} catch (e) {
 			return teamFail(e, 'role');
 		}
@@ -65,7 +65,7 @@ export const actions: Actions = {
 		if (!parsed.success)
 			return fail(400, { action: 'deactivate', message: parsed.error.issues[0].message });
 		try {
-			await setActive(user.companyId, parsed.data.userId, false);
+			await setActive(user.companyId, parsed.data.userId, false, user.id);
 		} catch (e) {
 			return teamFail(e, 'deactivate');
 		}
@@ -77,7 +77,7 @@ export const actions: Actions = {
 		if (!parsed.success)
 			return fail(400, { action: 'reactivate', message: parsed.error.issues[0].message });
 		try {
-			await setActive(user.companyId, parsed.data.userId, true);
+			await setActive(user.companyId, parsed.data.userId, true, user.id);
 		} catch (e) {
 			return teamFail(e, 'reactivate');
 		}
@@ -95,7 +95,7 @@ export const actions: Actions = {
 		const id = formObject(await event.request.formData()).tokenId ?? '';
 		if (!/^[0-9a-f-]{36}$/i.test(id))
 			return fail(400, { action: 'revoke', message: 'Unknown token.' });
-		await revokeToken(user.companyId, id);
+		await revokeToken(user.companyId, id, user.id);
 		return { action: 'revoke', done: 'Token revoked.' };
 	}
 };

@@ -10,3 +10,4 @@ export * from './proposals';
 export * from './site-visits';
 export * from './billing';
 export * from './job-hours';
+export * from './audit';
