@@ -1,5 +1,6 @@
-// From a ready estimate to a paid deposit, with real clicks in Chromium against the built server
-// and the local SMTP and payment fakes: send the proposal, read the e-mail the SMTP fake received,
+// From a priced estimate to a paid deposit, with real clicks in Chromium against the built server
+// and the local SMTP and payment fakes: the site visit on a tablet with a photo uploaded and
+// marked for the customer, confirmed so the estimate is ready; send the proposal, read the e-mail the SMTP fake received,
 // open its private link as the customer on a phone-sized screen, tick an extra, accept with a
 // typed name, pay on the fake's hosted page, and see the estimate accepted with the deposit paid.
 import type { BrowserContext, Page } from 'playwright-core';
@@ -8,7 +9,12 @@ import { money } from '../../src/lib/components/estimate/format';
 import { pctOf } from '../../src/lib/estimating/money';
 import { openBrowser, signInAs } from '../helpers/browser';
 import { startTestFakes, type TestFakes } from '../helpers/fakes';
-import { linkIn, readyEstimate } from '../helpers/proposal';
+import fs from 'node:fs';
+import path from 'node:path';
+import { planFacetsOf } from '../../geodata/scene';
+import { createWithToken } from '../helpers/http';
+import { jpegWithGps } from '../helpers/photo-fixtures';
+import { linkIn } from '../helpers/proposal';
 import { DEMO, seededDataDir, startServer, type TestServer } from '../helpers/server';
 import { prepareDataDir, type Prepared } from '../integration/api-helpers';
 
@@ -19,6 +25,7 @@ let office: BrowserContext;
 let customer: BrowserContext;
 let page: Page;
 let estimate: { id: string; totalCents: number; depositCents: number };
+let photoFile = '';
 
 beforeAll(async () => {
 	const dir = seededDataDir('e2e-proposal');
@@ -26,8 +33,28 @@ beforeAll(async () => {
 	fakes = await startTestFakes();
 	server = await startServer(dir, fakes.env);
 	fakes.payments.setWebhookUrl(`${server.url}/api/payments/webhook`);
-	estimate = await readyEstimate(server.url, prep, 'h01');
-	office = await openBrowser({ width: 1280, height: 900 });
+	// A priced estimate of h01 from its measured roof plan: the site visit makes it ready.
+	const site = prep.sites.find((s) => s.houseId === 'h01')!;
+	type Created = { plan: { id: string }; estimate: { id: string } };
+	const plan = (
+		await createWithToken<Created>(server.url, prep.ownerToken, '/api/roof-plans', {
+			siteId: site.id,
+			facets: planFacetsOf('h01'),
+			baseVersion: null
+		})
+	).plan;
+	const made = await createWithToken<Created>(server.url, prep.ownerToken, '/api/estimates', {
+		roofPlanId: plan.id,
+		siteId: site.id,
+		save: true
+	});
+	estimate = { id: made.estimate.id, totalCents: 0, depositCents: 0 };
+	photoFile = path.resolve('tmp', `e2e-proposal-${process.pid}`, 'front slope moss.jpg');
+	fs.mkdirSync(path.dirname(photoFile), { recursive: true });
+	const [lon, lat] = planFacetsOf('h01')[0].geometry.coordinates[0][0];
+	fs.writeFileSync(photoFile, await jpegWithGps(800, 600, '#55704a', { lat, lon }));
+	// A tablet for the visit; the same screen then sends the proposal.
+	office = await openBrowser({ width: 768, height: 1024 });
 	page = office.pages()[0] ?? (await office.newPage());
 	await signInAs(page, server.url, DEMO.sales);
 });
@@ -36,6 +63,7 @@ afterAll(async () => {
 	await customer?.close();
 	await server?.stop();
 	await fakes?.stop();
+	if (photoFile) fs.rmSync(path.dirname(photoFile), { recursive: true, force: true });
 });
 
 /**
@@ -87,6 +115,37 @@ async function contrastProblems(page: Page): Promise<string[]> {
 }
 
 describe('proposal to deposit', () => {
+	it('visits the site on a tablet: a photo for the customer, confirmed and re-priced', async () => {
+		await page.goto(`${server.url}/estimates/${estimate.id}`);
+		await page.getByRole('link', { name: 'Site visit' }).click();
+		await page.waitForURL(`${server.url}/estimates/${estimate.id}/visit`);
+		await page.getByRole('button', { name: 'Start the site visit' }).click();
+		await page.getByTestId('visit-facet').first().waitFor();
+		expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(
+			768
+		);
+		await page.getByTestId('photo-files').setInputFiles(photoFile);
+		await page.waitForSelector('[data-testid="uploads"] li[data-state="done"]');
+		await page.getByRole('img', { name: 'Photo front slope moss.jpg' }).waitFor();
+		await page.getByRole('button', { name: 'Show on proposal' }).click();
+		await page.getByRole('button', { name: '✓ On proposal' }).waitFor();
+		await page.getByRole('button', { name: 'Confirm visit and re-price' }).click();
+		await page.getByTestId('visit-confirmed').waitFor();
+		expect(await page.getByTestId('status-badge').innerText()).toMatch(/ready/i);
+		// The price the proposal offers is the estimate's as re-priced on site.
+		const res = await fetch(`${server.url}/api/estimates/${estimate.id}`, {
+			headers: { authorization: `Bearer ${prep.ownerToken}` }
+		});
+		const body = (await res.json()) as {
+			status: string;
+			result: { price: { totalCents: number; depositCents: number; measuredOnSite: boolean } };
+		};
+		expect(body.status).toBe('ready');
+		expect(body.result.price.measuredOnSite).toBe(true);
+		estimate.totalCents = body.result.price.totalCents;
+		estimate.depositCents = body.result.price.depositCents;
+	});
+
 	it('sends, is accepted with an extra, and the deposit is paid', async () => {
 		// The office sends the proposal.
 		await page.goto(`${server.url}/estimates/${estimate.id}`);
@@ -115,6 +174,17 @@ describe('proposal to deposit', () => {
 			390
 		);
 		expect(await contrastProblems(phone)).toEqual([]);
+		// The photo the salesperson marked, served through the private link.
+		const photo = phone.getByRole('img', { name: 'Site visit photo front slope moss.jpg' });
+		await photo.scrollIntoViewIfNeeded();
+		await phone.waitForFunction(
+			() =>
+				(
+					document.querySelector(
+						'img[alt="Site visit photo front slope moss.jpg"]'
+					) as HTMLImageElement | null
+				)?.naturalWidth === 800
+		);
 		await phone.setViewportSize({ width: 320, height: 700 });
 		expect(await phone.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(
 			320

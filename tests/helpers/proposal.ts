@@ -38,3 +38,58 @@ export function linkIn(text: string | null): string {
 	if (!m) throw new Error(`No proposal link in:\n${text}`);
 	return m[0];
 }
+
+async function formPost(base: string, path: string, cookie: string | null, fields: string[][]) {
+	const res = await fetch(base + path, {
+		method: 'POST',
+		redirect: 'manual',
+		headers: {
+			'content-type': 'application/x-www-form-urlencoded',
+			origin: base,
+			...(cookie ? { cookie } : {})
+		},
+		body: new URLSearchParams(fields).toString()
+	});
+	return { status: res.status, text: await res.text() };
+}
+
+/**
+ * A scene house's estimate taken the customer's way over HTTP: ready, its proposal sent by
+ * sales, accepted with no extra, and the deposit paid on the payment fake (whose signed webhook
+ * moves it to accepted). Answers the estimate and the deposit charged, in cents.
+ */
+export async function depositPaidEstimate(
+	base: string,
+	prep: Prepared,
+	houseId: string,
+	salesCookie: string,
+	fakes: {
+		smtp: { messages(): { to: string[]; text: string | null }[] };
+		payments: {
+			pay(id: string): Promise<unknown>;
+			sessions(): { id: string; amount_total: number }[];
+		};
+	}
+): Promise<{ id: string; depositCents: number }> {
+	const ready = await readyEstimate(base, prep, houseId);
+	const to = `${houseId}.deposit@wrenfield.example`;
+	const validUntil = new Date(Date.now() + 30 * 86_400_000).toISOString().slice(0, 10);
+	const sent = await formPost(base, `/estimates/${ready.id}/proposal?/send`, salesCookie, [
+		['to', to],
+		['validUntil', validUntil]
+	]);
+	if (sent.status !== 200) throw new Error(`send: ${sent.status}`);
+	const path = new URL(linkIn(fakes.smtp.messages().find((m) => m.to.includes(to))?.text ?? null))
+		.pathname;
+	const accepted = await formPost(base, `${path}?/accept`, null, [
+		['fullName', 'Marisol Quenby'],
+		['consent', 'yes']
+	]);
+	if (accepted.status !== 200) throw new Error(`accept: ${accepted.status}`);
+	const pay = await formPost(base, `${path}?/pay`, null, []);
+	const session = /\/pay\/(cs_[A-Za-z0-9_]+)/.exec(pay.text)?.[1];
+	if (!session) throw new Error(`No deposit checkout: ${pay.text.slice(0, 200)}`);
+	await fakes.payments.pay(session);
+	const depositCents = fakes.payments.sessions().find((s) => s.id === session)!.amount_total;
+	return { id: ready.id, depositCents };
+}
