@@ -149,6 +149,9 @@ describe('crew sheet', () => {
 		// Let the last keystrokes reach the phone's store before the reload.
 		await page.waitForTimeout(800);
 
+		// Chromium can let a reloaded page's first requests out before the offline emulation
+		// reaches its new renderer; the log's PUT is kept off the network across the reload too.
+		await phone.route('**/api/jobs/*/log', (route) => route.abort('internetdisconnected'));
 		await page.reload();
 		await page.getByTestId('sheet-address').waitFor();
 		expect(
@@ -172,6 +175,7 @@ describe('crew sheet', () => {
 		// Nothing has reached the server yet.
 		expect((await getJob<JobReply>(server.url, prep.ownerToken, jobId)).log).toBeNull();
 
+		await phone.unroute('**/api/jobs/*/log');
 		await phone.setOffline(false);
 		await syncState(page, 'sent');
 		const log = (await getJob<JobReply>(server.url, prep.ownerToken, jobId)).log!;
