@@ -45,7 +45,8 @@ const EXPECTED_NAV = {
 		'Team',
 		'Reports',
 		'Import & export',
-		'Settings'
+		'Settings',
+		'Audit log'
 	],
 	estimator: ['Today', 'Sites', 'Estimates'],
 	sales: ['Today', 'Sites', 'Estimates', 'Schedule'],

@@ -1,3 +1,4 @@
+import { isClosed } from '../../types/job';
 import { and, eq } from 'drizzle-orm';
 import type { EstimateResult } from '../../estimating/types';
 import type { EstimateFact, JobFact, ProposalFact, ReportFacts } from '../../reports/types';
@@ -94,7 +95,8 @@ export async function reportFacts(companyId: string): Promise<ReportFacts> {
 			id: j.id,
 			estimateId: j.estimateId,
 			label: j.address ?? 'Job without a site',
-			done: j.status === 'done',
+			// A paid job is a done job whose invoice is settled.
+			done: isClosed(j.status),
 			date: j.date,
 			doneAt: j.doneAt ? j.doneAt.toISOString() : null,
 			hoursExpected: j.expectedHours,
@@ -125,9 +127,9 @@ export async function recordJobHours(
 			.from(jobs)
 			.where(and(eq(jobs.id, jobId), eq(jobs.companyId, companyId)));
 		if (!job) throw new NotFound(`No job with id ${jobId}.`);
-		if (job.status !== 'done') {
+		if (!isClosed(job.status)) {
 			throw new Conflict(`Hours are recorded once the job is done; this one is ${job.status}.`, [
-				{ path: 'hours', message: `The job is ${job.status}, not done.` }
+				{ path: 'hours', message: `The job is ${job.status}, not done yet.` }
 			]);
 		}
 		await tx
