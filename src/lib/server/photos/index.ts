@@ -29,6 +29,7 @@ export {
 	/** @public The routes map a refusal's reason to its 4xx status. */
 	type PhotoRefusalReason
 } from './refusal';
+export { photoDto, photoFields } from './rows';
 export {
 	checkRoomForPhotos,
 	/** @public Used by the site-visit photo routes when a photo is removed. */

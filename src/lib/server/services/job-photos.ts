@@ -3,7 +3,15 @@ import type { PhotoDto } from '../../types/site-visit';
 import { getDb } from '../db';
 import { estimates, jobs, photos } from '../db/schema';
 import { env } from '../env';
-import { checkRoomForPhotos, deletePhoto, photoLimits, processPhoto, storePhoto } from '../photos';
+import {
+	checkRoomForPhotos,
+	deletePhoto,
+	photoDto,
+	photoFields,
+	photoLimits,
+	processPhoto,
+	storePhoto
+} from '../photos';
 import { getStorage } from '../storage';
 import { Conflict, NotFound } from './errors';
 
@@ -12,20 +20,6 @@ import { Conflict, NotFound } from './errors';
  * photos (`../photos`), kept in the same table with the job instead of the visit. Who may reach
  * a job is the crew sheet's rule; callers check it (getSheet) before calling these.
  */
-
-type PhotoRow = typeof photos.$inferSelect;
-
-const toDto = (r: PhotoRow): PhotoDto => ({
-	id: r.id,
-	fileName: r.fileName,
-	width: r.width,
-	height: r.height,
-	lat: r.lat,
-	lon: r.lon,
-	takenAt: r.takenAt,
-	forProposal: false,
-	createdAt: r.createdAt.toISOString()
-});
 
 export async function countAfterPhotos(companyId: string, jobId: string): Promise<number> {
 	const db = await getDb();
@@ -43,7 +37,7 @@ export async function listAfterPhotos(companyId: string, jobId: string): Promise
 		.from(photos)
 		.where(and(eq(photos.companyId, companyId), eq(photos.jobId, jobId)))
 		.orderBy(asc(photos.createdAt), asc(photos.id));
-	return rows.map(toDto);
+	return rows.map(photoDto);
 }
 
 /**
@@ -85,21 +79,13 @@ export async function addAfterPhoto(
 					companyId: caller.companyId,
 					siteId: site.id,
 					jobId,
-					displayKey: stored.displayKey,
-					thumbnailKey: stored.thumbnailKey,
-					fileName: processed.name,
-					width: processed.width,
-					height: processed.height,
-					lat: processed.position?.lat ?? null,
-					lon: processed.position?.lon ?? null,
-					takenAt: processed.takenAt,
-					takenAtOffset: processed.takenAtOffset,
+					...photoFields(processed, stored),
 					createdBy: caller.id
 				})
 				.returning();
 			return r;
 		});
-		return toDto(row);
+		return photoDto(row);
 	} catch (e) {
 		await deletePhoto(storage, stored).catch(() => {});
 		throw e;

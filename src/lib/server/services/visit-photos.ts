@@ -6,6 +6,8 @@ import { env } from '../env';
 import {
 	checkRoomForPhotos,
 	deletePhoto,
+	photoDto,
+	photoFields,
 	photoLimits,
 	processPhoto,
 	storePhoto,
@@ -22,18 +24,6 @@ import { getEstimate, type Caller } from './estimates';
  */
 
 type PhotoRow = typeof photos.$inferSelect;
-
-const toDto = (r: PhotoRow): PhotoDto => ({
-	id: r.id,
-	fileName: r.fileName,
-	width: r.width,
-	height: r.height,
-	lat: r.lat,
-	lon: r.lon,
-	takenAt: r.takenAt,
-	forProposal: r.forProposal,
-	createdAt: r.createdAt.toISOString()
-});
 
 async function visitOf(companyId: string, estimateId: string) {
 	const db = await getDb();
@@ -64,7 +54,7 @@ export async function listVisitPhotos(companyId: string, visitId: string): Promi
 		.from(photos)
 		.where(and(eq(photos.companyId, companyId), eq(photos.visitId, visitId)))
 		.orderBy(asc(photos.createdAt), asc(photos.id));
-	return rows.map(toDto);
+	return rows.map(photoDto);
 }
 
 async function photoCount(visitId: string): Promise<number> {
@@ -115,21 +105,13 @@ export async function addVisitPhoto(
 					companyId: caller.companyId,
 					siteId: visit.siteId,
 					visitId: visit.id,
-					displayKey: stored.displayKey,
-					thumbnailKey: stored.thumbnailKey,
-					fileName: processed.name,
-					width: processed.width,
-					height: processed.height,
-					lat: processed.position?.lat ?? null,
-					lon: processed.position?.lon ?? null,
-					takenAt: processed.takenAt,
-					takenAtOffset: processed.takenAtOffset,
+					...photoFields(processed, stored),
 					createdBy: caller.id
 				})
 				.returning();
 			return r;
 		});
-		return toDto(row);
+		return photoDto(row);
 	} catch (e) {
 		await deletePhoto(storage, stored).catch(() => {});
 		throw e;
@@ -171,7 +153,7 @@ export async function setPhotoForProposal(
 		.where(and(eq(photos.id, photoId), eq(photos.companyId, caller.companyId)))
 		.returning();
 	if (!row) throw new NotFound('That photo is not one of this site visit’s.');
-	return toDto(row);
+	return photoDto(row);
 }
 
 /** Removes the row first: a copy left behind by a failed delete is unreachable, never shown. */
