@@ -5,7 +5,9 @@
 // The rules are Clearpitch's own (issue 10); no outside source is involved.
 import { PGlite } from '@electric-sql/pglite';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { DEFAULT_RATE_CARD } from '../../src/lib/estimating/rate-card';
 import { localToday, addDays } from '../../src/lib/jobs/week';
+import { cardToForm } from '../../src/routes/(app)/rates/card-form';
 import { sessionFor, signIn } from '../helpers/http';
 import {
 	acceptedEstimate,
@@ -361,6 +363,54 @@ describe('crew sheets and the log', () => {
 		});
 		expect(move.status).toBe(409);
 		expect((await done('After photos sent to the office by text')).status).toBe(409);
+	});
+});
+
+describe("the sheet's dwell limit follows the estimate's rate card", () => {
+	// The trade's ceiling is "≤ 12–15 min" a coat (common practice, no outside source); the owner
+	// may set less on Rates. The sheet shows the setting of the card the estimate was priced with.
+	const dwellLine = async (jobId: string) => {
+		const html = await (
+			await fetch(`${server.url}/crew/${jobId}`, { headers: { cookie: cookies.crew } })
+		).text();
+		return /Dwell at most <strong>(\d+) min a coat<\/strong>/.exec(html)?.[1];
+	};
+
+	it("shows 15 min from the default card, the owner's 10 min on a later card, and refuses 20", async () => {
+		const before = await acceptedEstimate(server.url, prep.ownerToken, site('h08'));
+		const beforeJob = await scheduleViaForm(server.url, cookies.owner, {
+			estimateId: before,
+			date: addDays(today, 1),
+			crewIds: [jonah()]
+		});
+		expect(await dwellLine(beforeJob)).toBe('15');
+
+		const values = cardToForm(DEFAULT_RATE_CARD);
+		expect(values['chemistry.dwellMinutes']).toBe('15');
+		const tooLong = await postAction(server.url, cookies.owner, '/rates?/save', {
+			...values,
+			'chemistry.dwellMinutes': '20'
+		});
+		expect(tooLong.status).toBe(400);
+		// The Rates form puts the message beside the field it names.
+		expect(tooLong.data).toContain('"chemistry.dwellMinutes"');
+		expect(tooLong.data).toContain('Must be at most 15 min');
+		const saved = await postAction(server.url, cookies.owner, '/rates?/save', {
+			...values,
+			'chemistry.dwellMinutes': '10',
+			note: 'Shorter dwell for the summer'
+		});
+		expect(saved.type).toBe('redirect');
+
+		const after = await acceptedEstimate(server.url, prep.ownerToken, site('h09'));
+		const afterJob = await scheduleViaForm(server.url, cookies.owner, {
+			estimateId: after,
+			date: addDays(today, 1),
+			crewIds: [jonah()]
+		});
+		expect(await dwellLine(afterJob)).toBe('10');
+		// The job priced with the earlier card keeps its figure.
+		expect(await dwellLine(beforeJob)).toBe('15');
 	});
 });
 

@@ -8,7 +8,7 @@ import { jobLabour } from './labour';
 import { fixed2, formatCents, shortNumber } from './money';
 import { facetName, facetNames, NoteCollector } from './notes';
 import { jobCost, jobPrice, marginPct } from './pricing';
-import type { RateCard } from './rate-card';
+import { DWELL_CAP_MINUTES, type RateCard } from './rate-card';
 import {
 	ACCESS_GRADES,
 	GROWTH_GRADES,
@@ -250,7 +250,8 @@ export function tryEstimate(input: EstimateInput, card: RateCard): EstimateOutco
 				rinseGal: water.rinseGal,
 				totalMixGal,
 				totalStockGal,
-				totalSurfactantOz
+				totalSurfactantOz,
+				dwellMinutes: Math.min(chem.dwellMinutes, DWELL_CAP_MINUTES)
 			},
 			labour,
 			price,

@@ -75,9 +75,33 @@ export interface RateCard {
 		rinseGalPerEaveFt: number;
 		/** Pre-wet water is multiplied by this where runoff falls straight onto beds. */
 		noGuttersPreWetMultiplier: number;
+		/**
+		 * Longest a coat may dwell before it is rinsed or re-wetted, in minutes. Never over
+		 * DWELL_CAP_MINUTES; the product label may allow less, and then the label rules.
+		 */
+		dwellMinutes: number;
 	};
 	maxDiscountPct: number;
 	taxPct: number;
+}
+
+/**
+ * The trade's ceiling on dwell per coat: "≤ 12–15 min" (common practice, no outside source;
+ * docs/estimating-model.md, growth grades). A card may set less, never more.
+ */
+export const DWELL_CAP_MINUTES = 15;
+
+/**
+ * A card as stored by an earlier version of Clearpitch, brought up to the current shape: figures
+ * added since then take their default, so an old estimate's card still prices and its sheet
+ * still reads.
+ */
+export function upgradeRateCard(stored: RateCard): RateCard {
+	const chemistry: Partial<RateCard['chemistry']> = stored.chemistry;
+	return {
+		...stored,
+		chemistry: { ...stored.chemistry, dwellMinutes: chemistry.dwellMinutes ?? DWELL_CAP_MINUTES }
+	};
 }
 
 /**
@@ -192,7 +216,8 @@ export const DEFAULT_RATE_CARD: RateCard = {
 		wastePct: 10, // demo default, from memory
 		preWetGalPerEaveFt: 0.5, // demo default, from memory
 		rinseGalPerEaveFt: 0.5, // demo default, from memory
-		noGuttersPreWetMultiplier: 2 // demo default, from memory
+		noGuttersPreWetMultiplier: 2, // demo default, from memory
+		dwellMinutes: DWELL_CAP_MINUTES
 	},
 	maxDiscountPct: 15, // demo default, from memory
 	taxPct: 0 // demo default, from memory

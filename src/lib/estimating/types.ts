@@ -165,6 +165,8 @@ export interface ChemistryResult {
 	totalMixGal: number;
 	totalStockGal: number;
 	totalSurfactantOz: number;
+	/** Longest a coat may dwell, from the card, never over the trade's ceiling. */
+	dwellMinutes: number;
 }
 
 export interface LabourResult {

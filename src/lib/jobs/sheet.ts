@@ -1,12 +1,16 @@
 import { NOT_WALKABLE } from '../estimating/access';
+import { DWELL_CAP_MINUTES } from '../estimating/rate-card';
 import type { EstimateResult } from '../estimating/types';
 
 /**
- * Longest a coat may dwell before it is rinsed or re-wetted: DOMAIN practice is "≤ 12–15 min"
- * per coat (common practice, no outside source). The product label may allow less, and the
- * sheet says so beside it. Not on the rate card yet.
+ * Longest a coat may dwell before it is rinsed or re-wetted, as the sheet shows it: the rate
+ * card's dwell setting the estimate was priced with, never over the trade's ceiling (≤ 12–15 min
+ * per coat, common practice, no outside source). The product label may allow less, and the sheet
+ * says so beside it. Results priced before the card had the setting take the ceiling.
  */
-export const DWELL_LIMIT_MINUTES = 15;
+export function dwellLimitMinutes(chemistry: { dwellMinutes?: number }): number {
+	return Math.min(DWELL_CAP_MINUTES, chemistry.dwellMinutes ?? DWELL_CAP_MINUTES);
+}
 
 export interface SheetFacet {
 	id: string;

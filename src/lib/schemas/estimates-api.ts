@@ -112,7 +112,10 @@ export const estimateResultSchema = z.object({
 		rinseGal: z.number(),
 		totalMixGal: z.number(),
 		totalStockGal: z.number(),
-		totalSurfactantOz: z.number()
+		totalSurfactantOz: z.number(),
+		dwellMinutes: z
+			.number()
+			.describe("Longest a coat may dwell, minutes: the card's setting, at most 15.")
 	}),
 	labour: z.object({
 		hours: z.number().describe('Crew hours on site.'),

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import type { RateCard } from '../estimating/rate-card';
+import { DWELL_CAP_MINUTES, type RateCard } from '../estimating/rate-card';
 import { ACCESS_GRADES, GROWTH_GRADES, MATERIALS } from '../estimating/types';
 
 /**
@@ -119,7 +119,9 @@ export const rateCardSchema = z
 			wastePct: pct('wastePct'),
 			preWetGalPerEaveFt: num('preWetGalPerEaveFt', 0, 100, ' gal'),
 			rinseGalPerEaveFt: num('rinseGalPerEaveFt', 0, 100, ' gal'),
-			noGuttersPreWetMultiplier: multiplier('noGuttersPreWetMultiplier')
+			noGuttersPreWetMultiplier: multiplier('noGuttersPreWetMultiplier'),
+			// Cards saved before this figure existed take the trade's ceiling.
+			dwellMinutes: num('dwellMinutes', 1, DWELL_CAP_MINUTES, ' min').default(DWELL_CAP_MINUTES)
 		}),
 		maxDiscountPct: pct('maxDiscountPct'),
 		taxPct: pct('taxPct', 50)

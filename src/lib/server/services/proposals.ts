@@ -1,6 +1,6 @@
 import { and, asc, desc, eq, inArray } from 'drizzle-orm';
 import type { EstimateResult } from '../../estimating/types';
-import type { RateCard } from '../../estimating/rate-card';
+import { upgradeRateCard, type RateCard } from '../../estimating/rate-card';
 import { formatCents } from '../../estimating/money';
 import { priceWithExtras } from '../../proposal/price';
 import { isPastValidity, type ProposalStatus } from '../../proposal/status';
@@ -143,7 +143,7 @@ async function loadSource(
 		customerEmail: row.customerEmail,
 		noGutters: !!row.flags?.noGutters,
 		company: row.company,
-		card: row.card as RateCard
+		card: upgradeRateCard(row.card as RateCard)
 	};
 }
 

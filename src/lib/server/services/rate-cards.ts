@@ -1,5 +1,5 @@
 import { and, desc, eq, max } from 'drizzle-orm';
-import type { RateCard } from '../../estimating/rate-card';
+import { upgradeRateCard, type RateCard } from '../../estimating/rate-card';
 import { getDb } from '../db';
 import { rateCards, users } from '../db/schema';
 import diff from 'microdiff';
@@ -57,7 +57,7 @@ export async function latestRateCard(companyId: string): Promise<StoredRateCard>
 		.orderBy(desc(rateCards.version))
 		.limit(1);
 	if (!row) throw new NoRateCardError();
-	const stored = { ...row, card: row.card as RateCard };
+	const stored = { ...row, card: upgradeRateCard(row.card as RateCard) };
 	if ((generation.get(companyId) ?? 0) === gen) latest.set(companyId, stored);
 	return stored;
 }
@@ -75,7 +75,7 @@ export async function rateCardById(
 		.from(rateCards)
 		.where(and(eq(rateCards.companyId, companyId), eq(rateCards.id, id)))
 		.limit(1);
-	return row ? { ...row, card: row.card as RateCard } : undefined;
+	return row ? { ...row, card: upgradeRateCard(row.card as RateCard) } : undefined;
 }
 
 /** Every version with its card, newest first (the Rates page shows what changed). */
@@ -89,7 +89,7 @@ export async function rateCardHistory(
 		.leftJoin(users, eq(users.id, rateCards.createdBy))
 		.where(eq(rateCards.companyId, companyId))
 		.orderBy(desc(rateCards.version));
-	return rows.map((r) => ({ ...r, card: r.card as RateCard }));
+	return rows.map((r) => ({ ...r, card: upgradeRateCard(r.card as RateCard) }));
 }
 
 /**
@@ -156,5 +156,5 @@ export async function saveRateCard(
 		return inserted;
 	});
 	invalidate(companyId);
-	return { ...row, card: row.card as RateCard };
+	return { ...row, card: upgradeRateCard(row.card as RateCard) };
 }

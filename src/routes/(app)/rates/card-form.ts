@@ -163,7 +163,8 @@ export const LISTS: ListSection[] = [
 			f('chemistry.wastePct', 'Waste allowance', '%'),
 			f('chemistry.preWetGalPerEaveFt', 'Pre-wet water', 'gal/ft of eave'),
 			f('chemistry.rinseGalPerEaveFt', 'Rinse water', 'gal/ft of eave'),
-			f('chemistry.noGuttersPreWetMultiplier', 'Pre-wet with no gutters', '×')
+			f('chemistry.noGuttersPreWetMultiplier', 'Pre-wet with no gutters', '×'),
+			f('chemistry.dwellMinutes', 'Dwell limit per coat', 'min')
 		]
 	},
 	{

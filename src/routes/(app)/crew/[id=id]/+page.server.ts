@@ -3,7 +3,7 @@ import { fieldErrors, formObject } from '$lib/schemas/form';
 import { doneSchema } from '$lib/schemas/job';
 import { checklistItems } from '$lib/jobs/checklist';
 import { planPicture } from '$lib/jobs/plan-picture';
-import { DWELL_LIMIT_MINUTES, hazards, sheetFacets } from '$lib/jobs/sheet';
+import { dwellLimitMinutes, hazards, sheetFacets } from '$lib/jobs/sheet';
 import { statusOf } from '$lib/server/api/errors';
 import { requireRole } from '$lib/server/auth/guard';
 import { DomainError, NotFound } from '$lib/server/services/errors';
@@ -50,7 +50,7 @@ export const load: PageServerLoad = async (event) => {
 		afterPhotos: sheet.afterPhotos,
 		photos: await listAfterPhotos(user.companyId, event.params.id),
 		photoRules: { maxBytes: photoLimits().maxBytes, perJob: env.photosPerVisit },
-		dwellMinutes: DWELL_LIMIT_MINUTES,
+		dwellMinutes: dwellLimitMinutes(result.chemistry),
 		labourHours: result.labour.hours,
 		crewSize: result.labour.crewSize
 	};
