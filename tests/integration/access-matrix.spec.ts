@@ -85,7 +85,8 @@ const EXPECTED: Record<string, Role[] | 'public'> = {
  * the owner alone records a payment on an estimate the office can open.
  */
 const ACTION_EXPECTED: Record<string, Role[]> = {
-	'/estimates/[id] ?/payment': ['owner']
+	'/estimates/[id] ?/payment': ['owner'],
+	'/estimates/[id] ?/credit': ['owner']
 };
 
 const CALLERS = ['anonymous', ...ROLES, 'api token', 'revoked token', 'deactivated user'] as const;

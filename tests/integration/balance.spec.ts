@@ -371,6 +371,67 @@ describe('cash or a cheque, recorded by the owner', () => {
 		expect(await statusOf(cheque.estimateId)).toBe('done');
 	});
 
+	it('corrects the sent invoice with a credit note, refusing bad input and changing nothing', async () => {
+		const credit = (cookie: string, fields: [string, string][]) =>
+			form(`/estimates/${cheque.estimateId}?/credit`, cookie, fields);
+		const before = await api<{ totalCents: number }>(`/api/estimates/${cheque.estimateId}`);
+		expect(before.status).toBe(200);
+		expect(
+			(
+				await credit(cookies.sales, [
+					['amount', '25'],
+					['reason', 'Porch left']
+				])
+			).status
+		).toBe(403);
+		const cases: [string, string, string][] = [
+			['abc', 'Porch roof left', 'Enter an amount in dollars and cents'],
+			['0', 'Porch roof left', 'A credit must be more than $0.00.'],
+			['12.345', 'Porch roof left', 'Enter an amount in dollars and cents'],
+			['25', 'ok', 'Say what the credit is for (at least 3 characters).'],
+			['25', 'x'.repeat(121), 'Keep the reason to 120 characters.']
+		];
+		for (const [amount, reason, message] of cases) {
+			const r = await credit(cookies.owner, [
+				['amount', amount],
+				['reason', reason]
+			]);
+			expect(r.status, amount).toBe(400);
+			expect(r.text).toContain(message);
+		}
+		const tooMuch = await credit(cookies.owner, [
+			['amount', '1000000'],
+			['reason', 'Everything']
+		]);
+		expect(tooMuch.status).toBe(409);
+		expect(tooMuch.text).toContain('more than the');
+		expect(
+			await countRows(`select count(*)::int as n from invoices where kind = 'credit_note'`)
+		).toBe(0);
+
+		const ok = await credit(cookies.owner, [
+			['amount', '$25.00'],
+			['reason', 'Rear porch roof left for the next visit']
+		]);
+		expect(ok.status).toBe(200);
+		const page = await fetch(`${server.url}/estimates/${cheque.estimateId}`, {
+			headers: { cookie: cookies.owner }
+		}).then((x) => x.text());
+		expect(page).toContain('Rear porch roof left for the next visit');
+		expect(page).toMatch(/Credit note <span class="tabular">3<\/span>/);
+		// The invoice itself is as it was; the credit note is its own row, stored negative.
+		expect(
+			await countRows(
+				`select count(*)::int as n from invoices where kind = 'credit_note' and total_cents = -2500`
+			)
+		).toBe(1);
+		expect(
+			await countRows(
+				`select count(*)::int as n from audit_log where action = 'credit-note' and summary like '%$25.00%'`
+			)
+		).toBe(1);
+	});
+
 	it('settles the invoice for what it owes, once', async () => {
 		const r = await form(`/estimates/${cheque.estimateId}?/payment`, cookies.owner, [
 			['method', 'cheque'],
@@ -389,8 +450,15 @@ describe('cash or a cheque, recorded by the owner', () => {
 		]);
 		expect(twice.status).toBe(409);
 		expect(twice.text).toContain('already paid');
-		// Numbered next, with no gap, though the card invoice was settled in between.
-		expect(await countRows(`select max(number)::int as n from invoices`)).toBe(2);
+		// Settled for what the credit note left owing.
+		expect(
+			await countRows(
+				`select (i.total_cents - p.amount_cents)::int as n from invoice_payments p
+				   join invoices i on i.id = p.invoice_id where i.estimate_id = '${cheque.estimateId}'`
+			)
+		).toBe(2500);
+		// Numbered with no gap: the card invoice 1, this one 2, its credit note 3.
+		expect(await countRows(`select max(number)::int as n from invoices`)).toBe(3);
 	});
 
 	it('refuses a bare status move to paid: it is the payment that pays', async () => {

@@ -75,6 +75,7 @@ const AUDIT_ROWS: Record<string, number> = {
 };
 const AUDITED = new Set([
 	'/estimates/[id] payment',
+	'/estimates/[id] credit',
 	'/rates save',
 	'/settings imagery',
 	'/settings contact',
@@ -618,6 +619,18 @@ const CASES: FuzzCase[] = [
 		fingerprint: async () => (await getText(`/i/${bill.token}/__data.json`, '')).text,
 		// The first starts the balance checkout; later ones return the same open session.
 		grows: () => (bill.started ? [] : ((bill.started = true), ['deposit_checkouts']))
+	},
+	{
+		// Before the payment case: once paid, every credit is refused (409).
+		route: '/estimates/[id]',
+		action: 'credit',
+		path: () => `/estimates/${bill.estimateId}?/credit`,
+		cookie: () => ownerCookie,
+		fields: ['amount', 'reason'],
+		valid: () => ({ amount: '1.00', reason: 'Fuzz credit' }),
+		fingerprint: async () =>
+			(await getText(`/estimates/${bill.estimateId}/__data.json`, ownerCookie)).text,
+		grows: ['invoices']
 	},
 	{
 		route: '/estimates/[id]',

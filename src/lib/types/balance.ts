@@ -22,6 +22,8 @@ export type BalanceView = {
 	totalCents: number;
 	/** Credit notes against it (negative), so totalCents + creditedCents is what is owed. */
 	creditedCents: number;
+	/** The credit notes themselves, oldest first; amounts positive (what each took off). */
+	credits: { number: number; reason: string; amountCents: number; issuedAt: string }[];
 	recipientEmail: string | null;
 	paid: { method: PaymentMethod; amountCents: number; reference: string; paidAt: string } | null;
 };

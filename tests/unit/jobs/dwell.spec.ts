@@ -46,11 +46,11 @@ describe('dwell limit from the rate card', () => {
 	});
 
 	it('gives a card saved before the setting existed the ceiling, in the schema and on read', () => {
-		const old = cloneRateCard() as RateCard & { chemistry: Partial<RateCard['chemistry']> };
-		delete old.chemistry.dwellMinutes;
+		const { dwellMinutes: _dropped, ...chemistry } = cloneRateCard().chemistry;
+		const old = { ...cloneRateCard(), chemistry } as unknown as RateCard;
 		const parsed = rateCardSchema.parse(old);
 		expect(parsed.chemistry.dwellMinutes).toBe(15);
-		expect(upgradeRateCard(old as RateCard).chemistry.dwellMinutes).toBe(15);
+		expect(upgradeRateCard(old).chemistry.dwellMinutes).toBe(15);
 		const kept = cloneRateCard();
 		kept.chemistry.dwellMinutes = 12;
 		expect(upgradeRateCard(kept).chemistry.dwellMinutes).toBe(12);

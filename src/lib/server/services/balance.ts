@@ -22,7 +22,7 @@ import { enqueueMail, sendQueuedMail, type DbTx } from '../mail/outbox';
 import { createMailTransport } from '../mail/transport';
 import { createCheckout, getPaymentsClient, type CheckoutRow } from '../payments';
 import { hashProposalToken, newProposalToken, PROPOSAL_TOKEN } from '../proposals/token';
-import { issueInvoice, type InvoiceLine } from './invoices';
+import { issueCreditNote, issueInvoice, type InvoiceLine } from './invoices';
 import { auditStatus, recordAudit } from './audit';
 import { Conflict, Forbidden, NotFound } from './errors';
 import type { Caller } from './estimates';
@@ -193,9 +193,15 @@ async function viewOf(db: Db | DbTx, inv: typeof invoices.$inferSelect): Promise
 		.from(invoicePayments)
 		.where(eq(invoicePayments.invoiceId, inv.id));
 	const credits = await db
-		.select({ total: invoices.totalCents })
+		.select({
+			number: invoices.number,
+			lines: invoices.lines,
+			total: invoices.totalCents,
+			issuedAt: invoices.issuedAt
+		})
 		.from(invoices)
-		.where(and(eq(invoices.correctsId, inv.id), eq(invoices.kind, 'credit_note')));
+		.where(and(eq(invoices.correctsId, inv.id), eq(invoices.kind, 'credit_note')))
+		.orderBy(asc(invoices.number));
 	return {
 		invoiceId: inv.id,
 		number: inv.number,
@@ -205,6 +211,12 @@ async function viewOf(db: Db | DbTx, inv: typeof invoices.$inferSelect): Promise
 		taxCents: inv.taxCents,
 		totalCents: inv.totalCents,
 		creditedCents: credits.reduce((n, c) => n + c.total, 0),
+		credits: credits.map((c) => ({
+			number: c.number,
+			reason: (c.lines as BalanceView['lines'])[0]?.label ?? '',
+			amountCents: -c.total,
+			issuedAt: c.issuedAt.toISOString()
+		})),
 		recipientEmail: link?.to ?? null,
 		paid: pay
 			? {
@@ -343,6 +355,53 @@ export async function recordPayment(
 			paidAt: now,
 			by: caller.id
 		});
+		return viewOf(tx, inv);
+	});
+}
+
+/**
+ * The owner's correction of a final invoice that was sent: a credit note for `amountCents` off
+ * what is owed, with the reason as its line. The invoice itself never changes. The tax part is
+ * the invoice's own share of tax, so a credit of the whole balance takes its tax with it.
+ */
+export async function creditBalance(
+	caller: Caller,
+	estimateId: string,
+	input: { reason: string; amountCents: number }
+): Promise<BalanceView> {
+	if (caller.role !== 'owner') throw new Forbidden('Only the owner issues a credit note.');
+	const db = await getDb();
+	return db.transaction(async (tx) => {
+		const inv = await finalInvoiceOf(tx, caller.companyId, estimateId);
+		if (!inv) {
+			throw new Conflict(
+				'There is no final invoice yet: it is issued when the job is marked done.'
+			);
+		}
+		// The same row lock as a payment, so a credit and a payment never cross.
+		await tx.execute(sql`select id from invoices where id = ${inv.id} for update`);
+		const view = await viewOf(tx, inv);
+		if (view.paid) {
+			throw new Conflict(
+				`Invoice ${inv.number} is already paid; a credit note can only correct what is still owed.`
+			);
+		}
+		const due = owed(view);
+		if (input.amountCents > due) {
+			throw new Conflict(
+				`A credit of ${formatCents(input.amountCents)} is more than the ${formatCents(due)} still owed on invoice ${inv.number}.`
+			);
+		}
+		const taxCents =
+			inv.totalCents > 0 ? Math.round((input.amountCents * inv.taxCents) / inv.totalCents) : 0;
+		// A savepoint inside this transaction, like the final invoice itself.
+		await issueCreditNote(
+			tx as unknown as Db,
+			caller.companyId,
+			inv.id,
+			{ lines: [{ label: input.reason, amountCents: input.amountCents - taxCents }], taxCents },
+			caller.id
+		);
 		return viewOf(tx, inv);
 	});
 }

@@ -1,7 +1,7 @@
 import { error, fail } from '@sveltejs/kit';
 import { fieldErrors, formObject } from '$lib/schemas/form';
-import { recordPaymentSchema } from '$lib/schemas/balance';
-import { balanceOf, recordPayment } from '$lib/server/services/balance';
+import { creditNoteSchema, recordPaymentSchema } from '$lib/schemas/balance';
+import { balanceOf, creditBalance, recordPayment } from '$lib/server/services/balance';
 import { statusOf } from '$lib/server/api/errors';
 import { DomainError } from '$lib/server/services/errors';
 import { estimatePatchSchema } from '$lib/schemas/estimates-api';
@@ -54,6 +54,22 @@ export const actions: Actions = {
 			return { done: `Invoice ${b.number} recorded as paid.` };
 		} catch (e) {
 			if (e instanceof DomainError) return fail(statusOf(e), { paymentMessage: e.message });
+			throw e;
+		}
+	},
+	credit: async (event) => {
+		const user = requireRole(event, 'owner');
+		const parsed = creditNoteSchema.safeParse(formObject(await event.request.formData()));
+		if (!parsed.success) return fail(400, { creditErrors: fieldErrors(parsed.error) });
+		try {
+			const b = await creditBalance(user, event.params.id, {
+				reason: parsed.data.reason,
+				amountCents: parsed.data.amount
+			});
+			const note = b.credits[b.credits.length - 1];
+			return { done: `Credit note ${note.number} issued against invoice ${b.number}.` };
+		} catch (e) {
+			if (e instanceof DomainError) return fail(statusOf(e), { creditMessage: e.message });
 			throw e;
 		}
 	}
