@@ -3,7 +3,8 @@
 // expected roles below are written out by hand from the role descriptions in PRODUCT.md ("Users
 // and roles"), not copied from src/lib/roles.ts, so the table and the server are checked against
 // a third statement of who may open what.
-import { PGlite } from '@electric-sql/pglite';
+import type { PGlite } from '@electric-sql/pglite';
+import { openPglite } from '../helpers/pglite';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ROLES, type Role } from '../../src/lib/roles';
 import { hashSessionToken, newSessionToken } from '../../src/lib/server/auth/tokens';
@@ -225,7 +226,7 @@ function outcomeOf(status: number, location: string | null): Outcome | `other ${
 beforeAll(async () => {
 	const dir = seededDataDir('access-matrix');
 	prep = await prepareDataDir(dir);
-	const db = new PGlite(dir);
+	const db = openPglite(dir);
 	try {
 		await db.waitReady;
 		// A user who signed in and was then deactivated: the sessions survive in the table, so

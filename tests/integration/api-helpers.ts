@@ -1,6 +1,7 @@
 // Shared by the API, browser and benchmark runs: reads and prepares a seeded data dir while no
 // server has it open (PGlite allows one process per data dir).
-import { PGlite } from '@electric-sql/pglite';
+import type { PGlite } from '@electric-sql/pglite';
+import { openPglite } from '../helpers/pglite';
 import { hashApiToken, newApiToken } from '../../src/lib/server/auth/tokens';
 import type { EstimateRequest } from '../../src/lib/schemas/estimate';
 import { estimateFacetsOf, houses } from '../../geodata/scene';
@@ -16,7 +17,7 @@ export type Prepared = {
 };
 
 async function withDb<T>(dir: string, run: (db: PGlite) => Promise<T>): Promise<T> {
-	const db = new PGlite(dir);
+	const db = openPglite(dir);
 	try {
 		await db.waitReady;
 		return await run(db);

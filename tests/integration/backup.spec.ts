@@ -6,7 +6,7 @@ import { createHash } from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import { promisify } from 'node:util';
-import { PGlite } from '@electric-sql/pglite';
+import { openPglite } from '../helpers/pglite';
 import * as tar from 'tar';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DiskStorage } from '$lib/server/storage';
@@ -26,7 +26,7 @@ type Snapshot = { rows: Record<string, string>; files: Record<string, string> };
  * data is the same row for row and byte for byte.
  */
 async function snapshot(dataDir: string): Promise<Snapshot> {
-	const db = new PGlite(dataDir);
+	const db = openPglite(dataDir);
 	const rows: Record<string, string> = {};
 	try {
 		await db.waitReady;
@@ -137,7 +137,7 @@ describe('npm run backup', () => {
 describe('npm run restore', () => {
 	it('gives back identical rows in every table and identical files', async () => {
 		// Changes made after the backup: a row, a file gone, a file added.
-		const db = new PGlite(dir);
+		const db = openPglite(dir);
 		await db.waitReady;
 		await db.query(
 			`insert into customers (company_id, name) select company_id, 'Later Customer' from customers limit 1`

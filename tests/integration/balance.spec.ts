@@ -4,7 +4,8 @@
 // page and the signed webhook moves the job and its estimate to paid, once, whatever is
 // replayed or tampered with; the owner records cash or a cheque instead; after photos take the
 // site-visit upload path and count towards marking a job done.
-import { PGlite } from '@electric-sql/pglite';
+import type { PGlite } from '@electric-sql/pglite';
+import { openPglite } from '../helpers/pglite';
 import * as devalue from 'devalue';
 import sharp from 'sharp';
 import Stripe from 'stripe';
@@ -65,7 +66,7 @@ async function closeJob(jobId: string, cookie: string) {
 /** Rows of a table, counted with the server stopped (one process opens PGlite at a time). */
 async function countRows(sql: string): Promise<number> {
 	await server.stop();
-	const db = new PGlite(dir);
+	const db = openPglite(dir);
 	try {
 		await db.waitReady;
 		return (await db.query<{ n: number }>(sql)).rows[0].n;
@@ -221,7 +222,7 @@ describe('the final invoice', () => {
 
 	it('adds up: lines + tax = total, and the deposit is a line taken off', async () => {
 		await server.stop();
-		const pg = new PGlite(dir);
+		const pg = openPglite(dir);
 		let inv: Balance;
 		try {
 			await pg.waitReady;

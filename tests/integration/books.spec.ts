@@ -7,7 +7,8 @@
 // reader (RFC 4180), not with Clearpitch's own reading code.
 import { parse } from 'csv-parse/sync';
 import * as devalue from 'devalue';
-import { PGlite } from '@electric-sql/pglite';
+import type { PGlite } from '@electric-sql/pglite';
+import { openPglite } from '../helpers/pglite';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { hashPassword } from '../../src/lib/server/auth/password';
 import { localToday } from '../../src/lib/jobs/week';
@@ -36,7 +37,7 @@ const HOSTILE = {
 };
 
 async function withDb<T>(run: (db: PGlite) => Promise<T>): Promise<T> {
-	const db = new PGlite(dir);
+	const db = openPglite(dir);
 	try {
 		await db.waitReady;
 		return await run(db);

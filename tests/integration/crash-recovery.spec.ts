@@ -14,7 +14,8 @@
 // The kill moments come from a seeded generator; the seed is printed, and
 // CLEARPITCH_CRASH_SEED=<seed> replays the same schedule.
 import fs from 'node:fs';
-import { PGlite } from '@electric-sql/pglite';
+import type { PGlite } from '@electric-sql/pglite';
+import { openPglite } from '../helpers/pglite';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { prepareDataDir, sceneRequest, type SeededSite } from './api-helpers';
 import { seededDataDir, startServer, type TestServer } from '../helpers/server';
@@ -176,7 +177,7 @@ describe('SIGKILL during a stream of API writes', () => {
 
 			// The last round's writes, and every write of every round, read from the directory itself.
 			server = undefined;
-			const db = new PGlite(dir);
+			const db = openPglite(dir);
 			let stored: Map<string, string>;
 			try {
 				await db.waitReady;

@@ -5,7 +5,8 @@ import { execFile } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { promisify } from 'node:util';
-import { PGlite } from '@electric-sql/pglite';
+import type { PGlite } from '@electric-sql/pglite';
+import { openPglite } from '../helpers/pglite';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { signIn } from '../helpers/http';
 import {
@@ -27,7 +28,7 @@ type Counts = Record<(typeof TABLES)[number], number>;
 
 /** Row counts of the demo tables, read in one opening while no process holds the directory. */
 async function countAll(dir: string): Promise<Counts> {
-	const db = new PGlite(dir);
+	const db = openPglite(dir);
 	try {
 		await db.waitReady;
 		const counts = {} as Counts;

@@ -4,7 +4,8 @@
 // urlencoded and multipart. No answer may be a 5xx, and a refusal (4xx) must leave what the
 // action writes as it was: checked per run through read-only requests, and at the end by
 // counting every table's rows with the server stopped.
-import { PGlite } from '@electric-sql/pglite';
+import type { PGlite } from '@electric-sql/pglite';
+import { openPglite } from '../helpers/pglite';
 import fc from 'fast-check';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { planFacetsOf } from '../../geodata/scene';
@@ -102,7 +103,7 @@ const serverEnv = () => ({ ...fakes.env, ADDRESS_HEADER: 'x-forwarded-for', XFF_
 const nextAddress = () => `10.7.${(++client >> 8) & 255}.${client & 255}`;
 
 async function tableCounts(dir: string): Promise<Record<string, number>> {
-	const db = new PGlite(dir);
+	const db = openPglite(dir);
 	try {
 		await db.waitReady;
 		const tables = await db.query<{ name: string }>(

@@ -3,7 +3,8 @@
 // own sheets, the log refuses bad input and keeps the newest write, marking done needs the
 // checklist and an after photo or a reason, and each schedule change e-mails the customer once.
 // The rules are Clearpitch's own (issue 10); no outside source is involved.
-import { PGlite } from '@electric-sql/pglite';
+import type { PGlite } from '@electric-sql/pglite';
+import { openPglite } from '../helpers/pglite';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEFAULT_RATE_CARD } from '../../src/lib/estimating/rate-card';
 import { localToday, addDays } from '../../src/lib/jobs/week';
@@ -33,7 +34,7 @@ beforeAll(async () => {
 	dir = seededDataDir('jobs');
 	prep = await prepareDataDir(dir);
 	// Customers get invented addresses so the schedule e-mails have somewhere to go.
-	const db = new PGlite(dir);
+	const db = openPglite(dir);
 	await db.waitReady;
 	await db.query(
 		`update customers set email = lower(regexp_replace(name, '[^A-Za-z]+', '.', 'g')) || '@customers.example'`
@@ -417,7 +418,7 @@ describe("the sheet's dwell limit follows the estimate's rate card", () => {
 describe('the customer e-mail', () => {
 	it('writes one outbox message per schedule change, keyed by job and revision', async () => {
 		await server.stop();
-		const db = new PGlite(dir);
+		const db = openPglite(dir);
 		try {
 			await db.waitReady;
 			const rows = (

@@ -1,7 +1,8 @@
 // drizzle/0006: estimates stored before the one facet shape kept their outline under `polygon`;
 // the migration renames it to `geometry` and changes nothing else. Run on PGlite with the
 // project's own migration files, in journal order, the way drizzle's migrator applies them.
-import { PGlite } from '@electric-sql/pglite';
+import type { PGlite } from '@electric-sql/pglite';
+import { openPglite } from '../helpers/pglite';
 import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -31,7 +32,7 @@ const outline = {
 };
 
 describe('migration 0006: estimate facets take the shared shape', () => {
-	const db = new PGlite();
+	const db = openPglite();
 	const target = journal.entries.findIndex((e) => e.tag === '0006_estimate-facet-geometry');
 
 	beforeAll(async () => {

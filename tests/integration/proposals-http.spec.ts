@@ -3,7 +3,8 @@
 // with tampered prices, one answer under concurrent accepts, the deposit (one session for a
 // double click, paid, cancelled and paid again) and the webhook route under tampering, replay,
 // duplicates and events out of order.
-import { PGlite } from '@electric-sql/pglite';
+import type { PGlite } from '@electric-sql/pglite';
+import { openPglite } from '../helpers/pglite';
 import Stripe from 'stripe';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { money } from '../../src/lib/components/estimate/format';
@@ -159,7 +160,7 @@ beforeAll(async () => {
 	// (PGlite opens a data directory in one process at a time).
 	expiredLink = await sendAndLink('h09', TOMORROW);
 	await server.stop();
-	const db = new PGlite(dir);
+	const db = openPglite(dir);
 	await db.waitReady;
 	await db.query(`update proposals set valid_until = current_date - 1 where estimate_id = $1`, [
 		est.h09.id
@@ -457,7 +458,7 @@ describe('the outbox retry loop', () => {
 		// Make its next try due now, with the server stopped, then start it: nobody asks for a
 		// retry, so only the loop started in `init` can send it.
 		await server.stop();
-		const db = new PGlite(dir);
+		const db = openPglite(dir);
 		await db.waitReady;
 		const due = await db.query(
 			`update mail_outbox set next_attempt_at = now() - interval '1 second'

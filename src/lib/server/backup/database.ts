@@ -1,5 +1,6 @@
 import { spawn } from 'node:child_process';
-import { PGlite } from '@electric-sql/pglite';
+import type { PGlite } from '@electric-sql/pglite';
+import { openPglite } from '../db/pglite';
 import pg from 'pg';
 
 type Query = (text: string) => Promise<{ rows: unknown[] }>;
@@ -27,10 +28,11 @@ export async function withDumpInMemory<T>(
 	dump: Uint8Array,
 	use: (db: PGlite) => Promise<T>
 ): Promise<T> {
-	const db = await PGlite.create({
+	const db = openPglite(undefined, {
 		loadDataDir: new Blob([dump as Uint8Array<ArrayBuffer>], { type: 'application/x-gzip' })
 	});
 	try {
+		await db.waitReady;
 		return await use(db);
 	} finally {
 		await db.close();

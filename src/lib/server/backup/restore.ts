@@ -2,10 +2,10 @@ import { randomBytes } from 'node:crypto';
 import fs from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
-import { PGlite } from '@electric-sql/pglite';
 import pg from 'pg';
 import * as tar from 'tar';
 import { lockDataDir } from '../db/lock';
+import { openPglite } from '../db/pglite';
 import { countTables, runPgTool } from './database';
 import { digestFile, fileOf } from './files';
 import { FILES_DIR, MANIFEST_NAME, manifestSchema, type Manifest } from './manifest';
@@ -172,7 +172,7 @@ async function restorePglite(
 		}
 		// A new data directory beside the old one, opened and counted before anything moves.
 		const dump = await fs.readFile(path.join(staging, m.database.path));
-		const db = new PGlite(freshDb, {
+		const db = openPglite(freshDb, {
 			loadDataDir: new Blob([dump], { type: 'application/x-gzip' })
 		});
 		try {

@@ -1,4 +1,4 @@
-import { PGlite } from '@electric-sql/pglite';
+import type { PGlite } from '@electric-sql/pglite';
 import { drizzle as drizzlePglite, type PgliteDatabase } from 'drizzle-orm/pglite';
 import { migrate as migratePglite } from 'drizzle-orm/pglite/migrator';
 import { drizzle as drizzlePg } from 'drizzle-orm/node-postgres';
@@ -6,6 +6,7 @@ import { migrate as migratePg } from 'drizzle-orm/node-postgres/migrator';
 import pg from 'pg';
 import { env } from '../env';
 import { lockDataDir } from './lock';
+import { openPglite } from './pglite';
 import * as schema from './schema';
 
 /** Both drivers expose the same query builder; we type against the PGlite one. */
@@ -29,7 +30,7 @@ async function open(): Promise<Opened> {
 	const dir = env.dataDir;
 	const release = lockDataDir(dir);
 	try {
-		const client = new PGlite(dir);
+		const client = openPglite(dir);
 		await client.waitReady;
 		const db = drizzlePglite(client, { schema });
 		await migratePglite(db, { migrationsFolder: env.migrationsDir });
