@@ -3,7 +3,7 @@
 // the grade chosen. The scene's true grade (geodata/scene.geojson) is the reference.
 import type { BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { house } from '../../geodata/scene';
+import { facetsOf, house } from '../../geodata/scene';
 import { openBrowser, signInAs } from '../helpers/browser';
 import { DEMO, seededDataDir, startServer, type TestServer } from '../helpers/server';
 
@@ -31,15 +31,35 @@ describe('growth grade suggested in the facet panel', () => {
 		const { sites } = (await r.json()) as { sites: { id: string; address: string }[] };
 		const site = sites.find((s) => s.address === truth.address)!;
 		expect(site).toBeDefined();
+		// A first plan from the scene's true outlines, every facet graded G0 so the suggestion
+		// has something to change.
+		const facets = facetsOf('h04').map((f) => ({
+			id: f.properties.facetId,
+			label: f.properties.label,
+			geometry: f.geometry,
+			pitch: f.properties.pitch,
+			material: f.properties.material,
+			growth: 'G0',
+			access: f.properties.access,
+			stories: f.properties.stories,
+			edges: f.properties.edges
+		}));
+		const saved = await page.request.post(`${server.url}/api/roof-plans`, {
+			data: { siteId: site.id, facets, baseVersion: null },
+			headers: { origin: server.url }
+		});
+		expect(saved.status(), await saved.text()).toBe(201);
 		await page.goto(`${server.url}/sites/${site.id}/roof`);
 		await page.waitForFunction(() => window.__clearpitchMap?.kind === 'maplibre', null, {
 			timeout: 30_000
 		});
 		const row = page.locator('tbody tr[data-facet-row]').first();
 		const facetId = await row.getAttribute('data-facet-row');
-		await row.click();
+		// Focus selects the row (a click in its middle would land on a select).
+		await row.focus();
 		const shown = page.getByTestId('growth-suggestion');
-		await shown.waitFor({ timeout: 20_000 });
+		await page.locator('[data-testid^="growth-suggestion"]').waitFor({ timeout: 20_000 });
+		expect(await page.getByTestId('growth-suggestion-none').count()).toBe(0);
 		const text = (await shown.textContent()) ?? '';
 		const m = /Suggested:\s*(G[0-4])\s*\(confidence (\d+)%\)/.exec(text.replace(/\s+/g, ' '));
 		expect(m, text).not.toBeNull();
@@ -53,11 +73,13 @@ describe('growth grade suggested in the facet panel', () => {
 		// Move the grade away first, so Accept visibly changes it back to the suggestion.
 		const other = GRADES.find((g) => g !== suggested)!;
 		await page.locator(`input[name="growth"][value="${other}"]`).check({ force: true });
-		await page.getByRole('button', { name: `Accept ${suggested}` }).click();
+		await page.getByRole('button', { name: `Accept ${suggested}` }).click({ timeout: 10_000 });
 		await expect
 			.poll(() => page.locator('input[name="growth"]:checked').getAttribute('value'))
 			.toBe(suggested);
-		await page.getByRole('button', { name: 'Save plan' }).click();
+		const save = page.getByTestId('save-plan');
+		await expect.poll(() => save.isEnabled(), { timeout: 10_000 }).toBe(true);
+		await save.click();
 
 		await expect
 			.poll(
