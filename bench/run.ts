@@ -7,6 +7,7 @@ import os from 'node:os';
 import { benchApi } from './api';
 import { benchEditor, editorTable } from './editor';
 import { benchFootprint, footprintTable, FOOTPRINT_TARGET_MS } from './footprint';
+import { benchGrowth, growthTable } from './growth';
 import { benchLists, benchMixed } from './load';
 import { benchModel } from './model';
 
@@ -45,6 +46,9 @@ const footprint = benchFootprint();
 const footprintMd = footprintTable(footprint);
 const footprintOk = footprint.every((r) => r.p95Ms < FOOTPRINT_TARGET_MS);
 
+console.log('Growth suggestion: decoded tiles to a grade, per scene facet…');
+const growthMd = growthTable(await benchGrowth());
+
 const ok = (pass: boolean) => (pass ? 'met' : '**missed**');
 const modelOk = model.estimatesPerSec >= MODEL_TARGET;
 const ratioOk = medianRatio <= RATIO_TARGET;
@@ -76,9 +80,20 @@ const setting =
 	`same ${fmt(api.bodyBytes / 1024, 1)} KB body and API token for both, built server on PGlite; ` +
 	`${os.cpus().length} × ${os.cpus()[0]?.model.trim() ?? 'CPU'}, Node ${process.version}, load average ${fmt(loadBefore, 1)} → ${fmt(os.loadavg()[0], 1)}, ${new Date().toISOString().slice(0, 10)}.`;
 
-const md = `# Benchmarks\n\n\`npm run bench\` (after \`npx vite build\`).\n\n${table}\n\n${setting}\n\n## Large lists\n\n${listTable}\n\n## Roof-plan editor\n\n${editorMd}\n\n## Roof from outline\n\n${footprintMd}\n`;
+const md = `# Benchmarks\n\n\`npm run bench\` (after \`npx vite build\`).\n\n${table}\n\n${setting}\n\n## Large lists\n\n${listTable}\n\n## Roof-plan editor\n\n${editorMd}\n\n## Roof from outline\n\n${footprintMd}\n\n## Growth suggestion\n\n${growthMd}\n`;
 console.log(
-	'\n' + table + '\n\n' + setting + '\n\n' + listTable + '\n\n' + editorMd + '\n\n' + footprintMd
+	'\n' +
+		table +
+		'\n\n' +
+		setting +
+		'\n\n' +
+		listTable +
+		'\n\n' +
+		editorMd +
+		'\n\n' +
+		footprintMd +
+		'\n\n' +
+		growthMd
 );
 fs.writeFileSync(new URL('./results.md', import.meta.url), md);
 console.log('\nWritten to bench/results.md');

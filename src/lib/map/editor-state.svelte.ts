@@ -7,7 +7,10 @@ import { PlanMeasurer } from './plan-measure';
 import { History } from './undo';
 
 export type FacetPatch = Partial<
-	Pick<PlanFacet, 'label' | 'pitch' | 'material' | 'growth' | 'access' | 'stories' | 'edges'>
+	Pick<
+		PlanFacet,
+		'label' | 'pitch' | 'material' | 'growth' | 'access' | 'stories' | 'edges' | 'growthSuggestion'
+	>
 >;
 
 export interface PlanMeta {
@@ -45,7 +48,7 @@ export class EditorState {
 	#history = new History<PlanFacet[]>([]);
 	#measurer = new PlanMeasurer();
 	#committedMeasurer = new PlanMeasurer();
-	#lastProps: Omit<FacetPatch, 'label' | 'edges'> = { ...DEFAULTS };
+	#lastProps: Omit<FacetPatch, 'label' | 'edges' | 'growthSuggestion'> = { ...DEFAULTS };
 	#counter = 0;
 
 	/** Facets with the live outline in place of the committed one. */
@@ -110,7 +113,7 @@ export class EditorState {
 			(k) => JSON.stringify(f[k]) !== JSON.stringify(patch[k])
 		);
 		if (!changed) return;
-		const { label: _l, edges: _e, ...props } = patch;
+		const { label: _l, edges: _e, growthSuggestion: _g, ...props } = patch;
 		this.#lastProps = { ...this.#lastProps, ...props };
 		this.#commit(this.facets.map((x) => (x.id === id ? { ...x, ...patch } : x)));
 	}

@@ -29,7 +29,11 @@ export const FACET_LIMITS = {
 } as const;
 
 /** A facet as plans store it and the model prices it: the label is always there (maybe ''). */
-export type Facet = FacetInput & { label: string; edges: NonNullable<FacetInput['edges']> };
+export type Facet = FacetInput & {
+	label: string;
+	edges: NonNullable<FacetInput['edges']>;
+	growthSuggestion?: GrowthSuggestionRecord;
+};
 
 const finite = (field: string, min: number, max: number) =>
 	z
@@ -41,6 +45,42 @@ const finite = (field: string, min: number, max: number) =>
 		})
 		.min(min, { error: `${field} must be between ${min} and ${max}` })
 		.max(max, { error: `${field} must be between ${min} and ${max}` });
+
+/**
+ * What the imagery suggested for a facet's growth grade, kept beside the grade the estimator
+ * chose so the owner can see how often suggestions are kept and calibrate the thresholds.
+ */
+export const growthSuggestionSchema = z.strictObject(
+	{
+		grade: z.enum(GROWTH_GRADES, {
+			error: `suggested growth grade must be one of: ${GROWTH_GRADES.join(', ')}`
+		}),
+		confidence: finite('suggestion confidence', 0, 1),
+		measures: z.strictObject(
+			{
+				pixels: finite('suggestion pixel count', 0, 10_000_000),
+				cleanLevel: finite('suggestion clean level', 0, 255),
+				streakShare: finite('suggestion streak share', 0, 1),
+				heavyShare: finite('suggestion heavy share', 0, 1),
+				contrast: finite('suggestion contrast', 0, 1),
+				score: finite('suggestion score', 0, 100)
+			},
+			{
+				error: (iss) =>
+					iss.code === 'unrecognized_keys'
+						? `unknown field${iss.keys.length === 1 ? '' : 's'} in suggestion measures: ${iss.keys.join(', ')}`
+						: 'suggestion measures must be an object'
+			}
+		)
+	},
+	{
+		error: (iss) =>
+			iss.code === 'unrecognized_keys'
+				? `unknown field${iss.keys.length === 1 ? '' : 's'} in growth suggestion: ${iss.keys.join(', ')}`
+				: 'growth suggestion must be an object with grade, confidence and measures'
+	}
+);
+export type GrowthSuggestionRecord = z.infer<typeof growthSuggestionSchema>;
 
 const position = z.tuple(
 	[finite('longitude', -180, 180), finite('latitude', -90, 90)],
@@ -157,7 +197,8 @@ export const facetSchema = z
 						.nullable(),
 					{ error: 'edges must be an array, one entry per outline segment' }
 				)
-				.optional()
+				.optional(),
+			growthSuggestion: growthSuggestionSchema.optional()
 		},
 		{
 			error: (iss) =>
@@ -263,6 +304,7 @@ export function facetBody(f: Facet): Facet {
 		growth: f.growth,
 		access: f.access,
 		stories: f.stories,
-		edges: f.edges
+		edges: f.edges,
+		...(f.growthSuggestion ? { growthSuggestion: f.growthSuggestion } : {})
 	};
 }
