@@ -3,7 +3,6 @@
 // expected roles below are written out by hand from the role descriptions in PRODUCT.md ("Users
 // and roles"), not copied from src/lib/roles.ts, so the table and the server are checked against
 // a third statement of who may open what.
-import type { PGlite } from '@electric-sql/pglite';
 import { openPglite } from '../helpers/pglite';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ROLES, type Role } from '../../src/lib/roles';

@@ -4,7 +4,6 @@
 // page and the signed webhook moves the job and its estimate to paid, once, whatever is
 // replayed or tampered with; the owner records cash or a cheque instead; after photos take the
 // site-visit upload path and count towards marking a job done.
-import type { PGlite } from '@electric-sql/pglite';
 import { openPglite } from '../helpers/pglite';
 import * as devalue from 'devalue';
 import sharp from 'sharp';

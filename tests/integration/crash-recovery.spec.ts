@@ -14,7 +14,6 @@
 // The kill moments come from a seeded generator; the seed is printed, and
 // CLEARPITCH_CRASH_SEED=<seed> replays the same schedule.
 import fs from 'node:fs';
-import type { PGlite } from '@electric-sql/pglite';
 import { openPglite } from '../helpers/pglite';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { prepareDataDir, sceneRequest, type SeededSite } from './api-helpers';

@@ -4,7 +4,6 @@
 // urlencoded and multipart. No answer may be a 5xx, and a refusal (4xx) must leave what the
 // action writes as it was: checked per run through read-only requests, and at the end by
 // counting every table's rows with the server stopped.
-import type { PGlite } from '@electric-sql/pglite';
 import { openPglite } from '../helpers/pglite';
 import fc from 'fast-check';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';

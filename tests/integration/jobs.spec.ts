@@ -3,7 +3,6 @@
 // own sheets, the log refuses bad input and keeps the newest write, marking done needs the
 // checklist and an after photo or a reason, and each schedule change e-mails the customer once.
 // The rules are Clearpitch's own (issue 10); no outside source is involved.
-import type { PGlite } from '@electric-sql/pglite';
 import { openPglite } from '../helpers/pglite';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEFAULT_RATE_CARD } from '../../src/lib/estimating/rate-card';

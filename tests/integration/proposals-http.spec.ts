@@ -3,7 +3,6 @@
 // with tampered prices, one answer under concurrent accepts, the deposit (one session for a
 // double click, paid, cancelled and paid again) and the webhook route under tampering, replay,
 // duplicates and events out of order.
-import type { PGlite } from '@electric-sql/pglite';
 import { openPglite } from '../helpers/pglite';
 import Stripe from 'stripe';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
