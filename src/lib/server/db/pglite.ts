@@ -8,9 +8,12 @@ import { pg_trgm } from '@electric-sql/pglite/contrib/pg_trgm';
  */
 export const PGLITE_EXTENSIONS = { pg_trgm };
 
+/** A data directory, or in memory when `dataDir` is undefined (e.g. to read a dump). */
 export function openPglite(dataDir?: string, options: PGliteOptions = {}): PGlite {
-	return new PGlite(dataDir, {
+	// One options object: PGlite reads its second argument only when the first is a path.
+	return new PGlite({
 		...options,
+		...(dataDir === undefined ? {} : { dataDir }),
 		extensions: { ...PGLITE_EXTENSIONS, ...options.extensions }
 	});
 }
