@@ -56,6 +56,10 @@ export async function startServer(
 			// Node closes an idle keep-alive socket after 5 s; a test client that reuses it at that
 			// moment gets ECONNRESET. Outlast the clients' own idle time instead.
 			KEEP_ALIVE_TIMEOUT: '65',
+			// and the usual pairing: Node's headers timeout longer than the keep-alive one, so a socket
+			// idle between requests is not cut at the 60 s headers deadline first (one fuzz case met an
+			// ECONNRESET under load).
+			HEADERS_TIMEOUT: '70',
 			...extraEnv
 		},
 		stdio: ['ignore', 'pipe', 'pipe']
