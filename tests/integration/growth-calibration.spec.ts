@@ -172,7 +172,7 @@ describe('the suggested-grade report', () => {
 
 	it('refuses to calibrate on fewer than five site-visit facets, and changes nothing', async () => {
 		const empty = await settingsAction('calibrate');
-		expect(empty.status).toBe(409);
+		expect(empty.status).toBe(400);
 		expect(empty.data).toContain('at least 5 facets graded on a confirmed site visit');
 		expect(empty.data).toContain('there are 0.');
 		await gradeOnSiteAndConfirm('h03');
@@ -183,7 +183,7 @@ describe('the suggested-grade report', () => {
 			available: 4
 		});
 		const four = await settingsAction('calibrate');
-		expect(four.status).toBe(409);
+		expect(four.status).toBe(400);
 		expect(four.data).toContain('there are 4.');
 		expect(await settings()).toEqual(before);
 	});
@@ -277,7 +277,7 @@ describe('calibrating growth suggestions', () => {
 		expect(r.status).toBe(200);
 		expect((await settings()).growth.stored).toBeNull();
 		const again = await settingsAction('resetCalibration');
-		expect(again.status).toBe(409);
+		expect(again.status).toBe(400);
 		expect(again.data).toContain('already use the default cuts');
 		const roof = await pageData<{ growthThresholds: { cuts: number[] } }>(
 			`/sites/${siteOf.h03}/roof`,

@@ -49,6 +49,8 @@ export const actions: Actions = {
 		await setContact(user.companyId, parsed.data, user.id);
 		return { contact: { done: 'Saved. Proposals sent from now on carry these details.' } };
 	},
+	// Refusals are 400 with the reason, as a form's refusal is: the request cannot be carried out
+	// on the data there is (too few site-visit facets, nothing to reset).
 	calibrate: async (event) => {
 		const user = requireRole(event, 'owner');
 		try {
@@ -62,7 +64,7 @@ export const actions: Actions = {
 				}
 			};
 		} catch (e) {
-			if (e instanceof Conflict) return fail(409, { growth: { error: e.message } });
+			if (e instanceof Conflict) return fail(400, { growth: { error: e.message } });
 			throw e;
 		}
 	},
@@ -71,7 +73,7 @@ export const actions: Actions = {
 		try {
 			await resetGrowthCalibration(user.companyId, user.id);
 		} catch (e) {
-			if (e instanceof Conflict) return fail(409, { growth: { error: e.message } });
+			if (e instanceof Conflict) return fail(400, { growth: { error: e.message } });
 			throw e;
 		}
 		return { growth: { done: 'Growth suggestions use the default cuts again.' } };
