@@ -79,6 +79,8 @@ const AUDITED = new Set([
 	'/rates save',
 	'/settings imagery',
 	'/settings contact',
+	'/settings calibrate',
+	'/settings resetCalibration',
 	'/team invite',
 	'/team role',
 	'/team deactivate',
@@ -387,6 +389,25 @@ const CASES: FuzzCase[] = [
 			postalAddress: '18 Ropewalk Lane, Wrenfield',
 			licence: 'Insured'
 		}),
+		fingerprint: async () => (await getText('/settings/__data.json', ownerCookie)).text
+	},
+	// No site-visit facets carry a suggestion here and nothing is calibrated: both are refused.
+	{
+		route: '/settings',
+		action: 'calibrate',
+		path: () => '/settings?/calibrate',
+		cookie: () => ownerCookie,
+		fields: ['x'],
+		valid: () => ({}),
+		fingerprint: async () => (await getText('/settings/__data.json', ownerCookie)).text
+	},
+	{
+		route: '/settings',
+		action: 'resetCalibration',
+		path: () => '/settings?/resetCalibration',
+		cookie: () => ownerCookie,
+		fields: ['x'],
+		valid: () => ({}),
 		fingerprint: async () => (await getText('/settings/__data.json', ownerCookie)).text
 	},
 	{

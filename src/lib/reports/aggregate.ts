@@ -4,7 +4,7 @@
  */
 import { ESTIMATE_STATUSES, type EstimateStatus } from '../estimate-status';
 import { GROWTH_GRADES, MATERIALS, type GrowthGrade, type Material } from '../estimating/types';
-import type { EstimateFact, JobFact, ProposalFact } from './types';
+import type { EstimateFact, JobFact, ProposalFact, SuggestionFact } from './types';
 
 /** `2026-11` of an ISO date or date-time (the UTC month of a date-time). */
 export const monthOf = (iso: string): string => new Date(iso).toISOString().slice(0, 7);
@@ -327,6 +327,47 @@ export function crewHours(jobs: readonly JobFact[]): {
 			hoursLogged: hours,
 			difference: hours - expected,
 			differencePct: pct(hours - expected, expected)
+		}
+	};
+}
+
+export interface SuggestionRow {
+	suggested: GrowthGrade;
+	/** Facets by the grade chosen, in the order of GROWTH_GRADES. */
+	chosen: number[];
+	facets: number;
+	/** Facets whose chosen grade is the suggested one. */
+	kept: number;
+	keptPct: number | null;
+}
+
+/**
+ * Suggested growth grade against the grade chosen, one row per suggested grade that occurs,
+ * with the share kept; the total adds up every facet with a suggestion.
+ */
+export function suggestionsKept(facts: readonly SuggestionFact[]): {
+	rows: SuggestionRow[];
+	total: { chosen: number[]; facets: number; kept: number; keptPct: number | null };
+} {
+	const rows = GROWTH_GRADES.map((suggested) => {
+		const here = facts.filter((f) => f.suggested === suggested);
+		const kept = here.filter((f) => f.chosen === suggested).length;
+		return {
+			suggested,
+			chosen: GROWTH_GRADES.map((g) => here.filter((f) => f.chosen === g).length),
+			facets: here.length,
+			kept,
+			keptPct: pct(kept, here.length)
+		};
+	}).filter((r) => r.facets > 0);
+	const kept = rows.reduce((a, r) => a + r.kept, 0);
+	return {
+		rows,
+		total: {
+			chosen: GROWTH_GRADES.map((_, i) => rows.reduce((a, r) => a + r.chosen[i], 0)),
+			facets: facts.length,
+			kept,
+			keptPct: pct(kept, facts.length)
 		}
 	};
 }

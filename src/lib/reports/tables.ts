@@ -11,8 +11,10 @@ import {
 	pricePerSquare,
 	revenueByMaterial,
 	revenueByMonth,
+	suggestionsKept,
 	winRate
 } from './aggregate';
+import { GROWTH_GRADES } from '../estimating/types';
 import type { ReportFacts } from './types';
 
 export const REPORT_IDS = [
@@ -22,7 +24,8 @@ export const REPORT_IDS = [
 	'revenue-by-material',
 	'chemical',
 	'price-per-square',
-	'crew-hours'
+	'crew-hours',
+	'growth-suggestions'
 ] as const;
 export type ReportId = (typeof REPORT_IDS)[number];
 
@@ -48,6 +51,7 @@ export function reportTables(facts: ReportFacts): Record<ReportId, ReportTable> 
 	const chem = chemical(facts.jobs);
 	const pps = pricePerSquare(facts.estimates);
 	const hours = crewHours(facts.jobs);
+	const kept = suggestionsKept(facts.suggestions);
 	const sum = <T>(rows: T[], f: (r: T) => number) => rows.reduce((a, r) => a + f(r), 0);
 	const marginPct = (rev: number, margin: number) => (rev === 0 ? null : (margin / rev) * 100);
 	return {
@@ -222,6 +226,27 @@ export function reportTables(facts: ReportFacts): Record<ReportId, ReportTable> 
 						hours.total.hoursLogged,
 						hours.total.difference
 					]
+				: undefined
+		},
+		'growth-suggestions': {
+			id: 'growth-suggestions',
+			title: 'Growth grades suggested from the imagery and chosen',
+			columns: [
+				col('Suggested', 'text'),
+				...GROWTH_GRADES.map((g) => col(`Chosen ${g}`, 'count')),
+				col('Facets', 'count'),
+				col('Kept', 'count'),
+				col('Kept %', 'pct')
+			],
+			rows: kept.rows.map((r) => [
+				GROWTH_LABELS[r.suggested],
+				...r.chosen,
+				r.facets,
+				r.kept,
+				r.keptPct
+			]),
+			total: kept.rows.length
+				? ['All', ...kept.total.chosen, kept.total.facets, kept.total.kept, kept.total.keptPct]
 				: undefined
 		}
 	};

@@ -46,8 +46,15 @@ export interface JobFact {
 	surfactantOzUsed: number | null;
 }
 
+/** One facet the imagery graded: what it suggested and what the estimator chose. */
+export interface SuggestionFact {
+	suggested: GrowthGrade;
+	chosen: GrowthGrade;
+}
+
 export interface ReportFacts {
 	estimates: EstimateFact[];
 	proposals: ProposalFact[];
 	jobs: JobFact[];
+	suggestions: SuggestionFact[];
 }

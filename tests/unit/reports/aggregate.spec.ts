@@ -344,7 +344,12 @@ describe('crewHours', () => {
 
 describe('report tables', () => {
 	it('carry the same figures, with a total row that adds up', () => {
-		const t = reportTables({ estimates: [N1, N2, D1, S1], proposals: [], jobs: JOBS });
+		const t = reportTables({
+			estimates: [N1, N2, D1, S1],
+			proposals: [],
+			jobs: JOBS,
+			suggestions: []
+		});
 		expect(t['revenue-by-month'].total).toEqual([
 			'All',
 			3,
@@ -361,7 +366,7 @@ describe('report tables', () => {
 	});
 
 	it('is empty, not failing, for a company with no data', () => {
-		const t = reportTables({ estimates: [], proposals: [], jobs: [] });
+		const t = reportTables({ estimates: [], proposals: [], jobs: [], suggestions: [] });
 		for (const id of [
 			'win-rate',
 			'revenue-by-month',

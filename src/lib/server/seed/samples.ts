@@ -10,6 +10,7 @@ import { changeStatus, priceEstimateBody, type EstimateStatus } from '../service
 import { markDone, saveLog, scheduleJob, type Caller } from '../services/jobs';
 import { savePlan } from '../services/roof-plans';
 import { recordJobHours } from '../services/reports';
+import { suggestGrade, type GrowthMeasures } from '../../estimating/growth-suggest';
 import { checklistItems } from '../../jobs/checklist';
 import { addDays, localToday } from '../../jobs/week';
 import { hashPassword } from '../auth/password';
@@ -80,7 +81,7 @@ export async function seedSamples(
 			.where(eq(roofPlans.siteId, site.id));
 		if (plansThere > 0) continue;
 
-		const facets = planFacetsOf(sample.houseId);
+		const facets = (await sampleSuggestions()).add(planFacetsOf(sample.houseId));
 		const plan = savePlanSchema.parse({
 			siteId: site.id,
 			facets,
@@ -158,4 +159,26 @@ async function sampleJob(caller: Caller, estimateId: string, status: EstimateSta
 	);
 	if (status === 'paid')
 		await recordPayment(caller, estimateId, { method: 'cheque', reference: 'Cheque 1042' });
+}
+
+/**
+ * The growth grade the editor would suggest for each sample facet, read from the generated sample
+ * tiles, so the demo's plans carry a suggestion beside the grade chosen. Without the tiles
+ * (node geodata/generate-tiles.js not run) the plans simply carry none.
+ */
+async function sampleSuggestions() {
+	let byFacet = new Map<string, GrowthMeasures>();
+	try {
+		const { measureSceneFacets } = await import('../../../../geodata/tile-reader');
+		byFacet = new Map((await measureSceneFacets()).map((f) => [f.facetId, f.measures]));
+	} catch {
+		// No tiles: no suggestions.
+	}
+	return {
+		add: <F extends { id: string }>(facets: F[]) =>
+			facets.map((f) => {
+				const m = byFacet.get(f.id);
+				return m ? { ...f, growthSuggestion: { ...suggestGrade(m), measures: m } } : f;
+			})
+	};
 }

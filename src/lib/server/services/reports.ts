@@ -1,7 +1,13 @@
 import { isClosed } from '../../types/job';
-import { and, eq } from 'drizzle-orm';
+import { and, desc, eq } from 'drizzle-orm';
 import type { EstimateResult } from '../../estimating/types';
-import type { EstimateFact, JobFact, ProposalFact, ReportFacts } from '../../reports/types';
+import type {
+	EstimateFact,
+	JobFact,
+	ProposalFact,
+	ReportFacts,
+	SuggestionFact
+} from '../../reports/types';
 import { getDb } from '../db';
 import {
 	estimates,
@@ -10,9 +16,11 @@ import {
 	jobs,
 	proposalAnswers,
 	proposals,
+	roofPlans,
 	sites
 } from '../db/schema';
 import { Conflict, NotFound } from './errors';
+import { fromCollection } from './roof-plans';
 
 function estimateFact(row: {
 	id: string;
@@ -107,7 +115,32 @@ export async function reportFacts(companyId: string): Promise<ReportFacts> {
 			surfactantOzUsed: j.surfactantOzUsed
 		};
 	});
-	return { estimates: est.map(estimateFact), proposals: proposalFacts, jobs: jobFacts };
+	return {
+		estimates: est.map(estimateFact),
+		proposals: proposalFacts,
+		jobs: jobFacts,
+		suggestions: await suggestionFacts(companyId)
+	};
+}
+
+/**
+ * Suggested and chosen growth grades, each facet once: from every site's latest remote roof
+ * plan, the estimator's last word on it. Not from estimates, which repeat a plan's facets once
+ * per estimate priced from it; and not from site-visit copies, whose grade is what was found on
+ * the roof (the calibration's truth), not the estimator's choice.
+ */
+async function suggestionFacts(companyId: string): Promise<SuggestionFact[]> {
+	const db = await getDb();
+	const plans = await db
+		.selectDistinctOn([roofPlans.siteId], { facets: roofPlans.facets })
+		.from(roofPlans)
+		.where(and(eq(roofPlans.companyId, companyId), eq(roofPlans.source, 'remote')))
+		.orderBy(roofPlans.siteId, desc(roofPlans.version));
+	return plans.flatMap((p) =>
+		fromCollection(p.facets).flatMap((f) =>
+			f.growthSuggestion ? [{ suggested: f.growthSuggestion.grade, chosen: f.growth }] : []
+		)
+	);
 }
 
 /**

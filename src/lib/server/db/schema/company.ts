@@ -1,4 +1,4 @@
-import { pgTable, text } from 'drizzle-orm/pg-core';
+import { jsonb, pgTable, text } from 'drizzle-orm/pg-core';
 import { id, timestamps } from './columns';
 
 export const companies = pgTable('companies', {
@@ -13,5 +13,7 @@ export const companies = pgTable('companies', {
 	postalAddress: text('postal_address'),
 	/** Licence and insurance line, e.g. a state applicator licence number. */
 	licence: text('licence'),
+	/** Growth-suggestion cuts fitted to site-visit grades; null means the shipped defaults. */
+	growthCalibration: jsonb('growth_calibration'),
 	...timestamps
 });

@@ -2,6 +2,7 @@ import { error } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth/guard';
 import { getPlan, listVersions } from '$lib/server/services/roof-plans';
 import { companyImagery, getSiteDetail } from '$lib/server/services/sites';
+import { companyGrowthThresholds } from '$lib/server/services/growth-calibration';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
@@ -14,9 +15,10 @@ export const load: PageServerLoad = async (event) => {
 	if (asked !== null && !/^[1-9]\d{0,8}$/.test(asked)) {
 		error(400, 'The version must be a whole number from 1.');
 	}
-	const [versions, imagery] = await Promise.all([
+	const [versions, imagery, growthThresholds] = await Promise.all([
 		listVersions(user.companyId, site.id),
-		companyImagery(user.companyId)
+		companyImagery(user.companyId),
+		companyGrowthThresholds(user.companyId)
 	]);
 	const plan = await getPlan(user.companyId, site.id, asked ? Number(asked) : undefined);
 	if (asked && !plan) error(404, `This site has no roof plan version ${asked}.`);
@@ -32,6 +34,7 @@ export const load: PageServerLoad = async (event) => {
 			facets: plan.facets
 		},
 		versions,
+		growthThresholds,
 		readOnly: !!plan && plan.version !== latest
 	};
 };
