@@ -325,6 +325,19 @@ export async function onBalanceChange(tx: DbTx, checkout: CheckoutRow): Promise<
 }
 
 /**
+ * The estimate's final invoice, locked for the rest of `tx`: the row lock queues a card
+ * payment's webhook, the owner's payment record and a credit note, so none of them cross.
+ */
+async function lockedFinalInvoice(tx: DbTx, companyId: string, estimateId: string) {
+	const inv = await finalInvoiceOf(tx, companyId, estimateId);
+	if (!inv) {
+		throw new Conflict('There is no final invoice yet: it is issued when the job is marked done.');
+	}
+	await tx.execute(sql`select id from invoices where id = ${inv.id} for update`);
+	return { inv, view: await viewOf(tx, inv) };
+}
+
+/**
  * The owner records cash or a cheque for an estimate's final invoice. The amount is what is
  * owed, from the invoice itself; the form only says how and gives a reference.
  */
@@ -337,15 +350,7 @@ export async function recordPayment(
 	if (caller.role !== 'owner') throw new Forbidden('Only the owner records a payment.');
 	const db = await getDb();
 	return db.transaction(async (tx) => {
-		const inv = await finalInvoiceOf(tx, caller.companyId, estimateId);
-		if (!inv) {
-			throw new Conflict(
-				'There is no final invoice yet: it is issued when the job is marked done.'
-			);
-		}
-		// The invoice row lock queues a card payment's webhook and this form.
-		await tx.execute(sql`select id from invoices where id = ${inv.id} for update`);
-		const view = await viewOf(tx, inv);
+		const { inv, view } = await lockedFinalInvoice(tx, caller.companyId, estimateId);
 		if (view.paid)
 			throw new Conflict(`Invoice ${inv.number} is already paid; nothing was changed.`);
 		await settle(tx, inv, {
@@ -372,15 +377,7 @@ export async function creditBalance(
 	if (caller.role !== 'owner') throw new Forbidden('Only the owner issues a credit note.');
 	const db = await getDb();
 	return db.transaction(async (tx) => {
-		const inv = await finalInvoiceOf(tx, caller.companyId, estimateId);
-		if (!inv) {
-			throw new Conflict(
-				'There is no final invoice yet: it is issued when the job is marked done.'
-			);
-		}
-		// The same row lock as a payment, so a credit and a payment never cross.
-		await tx.execute(sql`select id from invoices where id = ${inv.id} for update`);
-		const view = await viewOf(tx, inv);
+		const { inv, view } = await lockedFinalInvoice(tx, caller.companyId, estimateId);
 		if (view.paid) {
 			throw new Conflict(
 				`Invoice ${inv.number} is already paid; a credit note can only correct what is still owed.`
