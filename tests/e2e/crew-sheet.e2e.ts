@@ -121,10 +121,18 @@ describe('crew sheet', () => {
 			{ polling: 250, timeout: 30_000 }
 		);
 
+		// Chromium's offline emulation reaches each target in its own time (and a reloaded page
+		// can send its first requests before it does), so the log's PUT is also kept off the
+		// network by a route for the whole offline stretch: nothing the page sends gets through.
+		let held = 0;
+		await phone.route('**/api/jobs/*/log', (route) => {
+			held++;
+			return route.abort('internetdisconnected');
+		});
 		await phone.setOffline(true);
 		// Wait until the emulation reaches every target (page and service worker): a GET the
-		// worker passes through, and a POST that goes straight from the page (as the log's PUT
-		// does), both fail only from then on.
+		// worker passes through, and a POST that goes straight from the page, both fail only
+		// from then on.
 		await page.waitForFunction(
 			() =>
 				Promise.all(
@@ -149,9 +157,8 @@ describe('crew sheet', () => {
 		// Let the last keystrokes reach the phone's store before the reload.
 		await page.waitForTimeout(800);
 
-		// Chromium can let a reloaded page's first requests out before the offline emulation
-		// reaches its new renderer; the log's PUT is kept off the network across the reload too.
-		await phone.route('**/api/jobs/*/log', (route) => route.abort('internetdisconnected'));
+		// The page did try to send, and was held back.
+		expect(held).toBeGreaterThan(0);
 		await page.reload();
 		await page.getByTestId('sheet-address').waitFor();
 		expect(
