@@ -81,7 +81,16 @@ export interface ListTimings {
 	name: string;
 	smallMs: number;
 	bigMs: number;
+	/** For a search: how many sites it finds in each data set. */
+	matches?: { small: number; big: number };
 }
+
+/**
+ * Two searches: one that finds the same few demo sites in both data sets (it must not read the
+ * other 10,000), and one that finds none of the demo's but 500 of the big set's (it must count
+ * them through the trigram index, not by reading every address).
+ */
+const SEARCHES = ['Tidewater', 'Heron'] as const;
 
 export interface ListBench {
 	lists: ListTimings[];
@@ -117,16 +126,27 @@ async function timeLists(dir: string) {
 		).json()) as {
 			total: number;
 		};
-		return {
-			total: counts.total,
-			timings: {
-				'Sites page': await median(`${server.url}/sites`, page),
-				'Sites page, search "Heron"': await median(`${server.url}/sites?q=Heron`, page),
-				'GET /api/sites?q=Heron': await median(`${server.url}/api/sites?q=Heron`, bearer),
-				'GET /api/estimates (first page)': await median(`${server.url}/api/estimates`, bearer),
-				'Estimates page': await median(`${server.url}/estimates`, page)
-			}
+		const timings: Record<string, { ms: number; matches?: number }> = {
+			'Sites page': { ms: await median(`${server.url}/sites`, page) }
 		};
+		for (const q of SEARCHES) {
+			const found = (await (
+				await fetch(`${server.url}/api/sites?q=${q}&pageSize=1`, { headers: bearer })
+			).json()) as { total: number };
+			timings[`Sites page, search "${q}"`] = {
+				ms: await median(`${server.url}/sites?q=${q}`, page),
+				matches: found.total
+			};
+			timings[`GET /api/sites?q=${q}`] = {
+				ms: await median(`${server.url}/api/sites?q=${q}`, bearer),
+				matches: found.total
+			};
+		}
+		timings['GET /api/estimates (first page)'] = {
+			ms: await median(`${server.url}/api/estimates`, bearer)
+		};
+		timings['Estimates page'] = { ms: await median(`${server.url}/estimates`, page) };
+		return { total: counts.total, timings };
 	} finally {
 		await server.stop();
 	}
@@ -148,10 +168,13 @@ export async function benchLists(): Promise<ListBench> {
 	const b = await timeLists(big);
 	if (b.total < a.total + 20_000) throw new Error(`the big data set has ${b.total} estimates`);
 	return {
-		lists: Object.keys(a.timings).map((name) => ({
+		lists: Object.entries(a.timings).map(([name, t]) => ({
 			name,
-			smallMs: a.timings[name as keyof typeof a.timings],
-			bigMs: b.timings[name as keyof typeof b.timings]
+			smallMs: t.ms,
+			bigMs: b.timings[name].ms,
+			...(t.matches === undefined
+				? {}
+				: { matches: { small: t.matches, big: b.timings[name].matches ?? 0 } })
 		})),
 		bigSites: 10_000,
 		bigEstimates: 20_000

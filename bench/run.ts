@@ -70,7 +70,7 @@ const listTable = [
 	'| --- | --- | --- | --- | --- |',
 	...lists.lists.map(
 		(l) =>
-			`| ${l.name} | ${fmt(l.smallMs)} ms | ${fmt(l.bigMs)} ms | ×${fmt(l.bigMs / l.smallMs)} | ≤ ×${LIST_TARGET}: ${ok(l.bigMs / l.smallMs <= LIST_TARGET)} |`
+			`| ${l.name}${l.matches ? ` (finds ${l.matches.small} → ${l.matches.big.toLocaleString('en-US')})` : ''} | ${fmt(l.smallMs)} ms | ${fmt(l.bigMs)} ms | ×${fmt(l.bigMs / l.smallMs)} | ≤ ×${LIST_TARGET}: ${ok(l.bigMs / l.smallMs <= LIST_TARGET)} |`
 	)
 ].join('\n');
 

@@ -6,6 +6,7 @@ import { migrate as migratePg } from 'drizzle-orm/node-postgres/migrator';
 import pg from 'pg';
 import { env } from '../env';
 import { lockDataDir } from './lock';
+import { TIDY_EVERY_MS, tidyTables } from './maintenance';
 import { openPglite } from './pglite';
 import * as schema from './schema';
 
@@ -34,11 +35,21 @@ async function open(): Promise<Opened> {
 		await client.waitReady;
 		const db = drizzlePglite(client, { schema });
 		await migratePglite(db, { migrationsFolder: env.migrationsDir });
+		// Measured before the first request, so a data set loaded in bulk (a seed, a restore)
+		// is searched through its indexes from the start; then again now and then.
+		await tidyTables(client);
+		let tidying: Promise<unknown> = Promise.resolve();
+		const timer = setInterval(() => {
+			tidying = tidying.then(() => tidyTables(client)).catch((e) => console.error('tidy:', e));
+		}, TIDY_EVERY_MS);
+		timer.unref();
 		return {
 			db,
 			kind: 'pglite',
 			close: async () => {
+				clearInterval(timer);
 				try {
+					await tidying;
 					await client.close();
 				} finally {
 					release();
@@ -62,6 +73,12 @@ export async function pgliteClient(): Promise<PGlite | null> {
 	opening ??= open();
 	const o = await opening;
 	return o.kind === 'pglite' ? (o.db as unknown as { $client: PGlite }).$client : null;
+}
+
+/** After a bulk load on the embedded database: measure the grown tables now, not within the hour. */
+export async function tidyAfterBulkLoad(): Promise<void> {
+	const client = await pgliteClient();
+	if (client) await tidyTables(client).catch((e) => console.error('tidy:', e));
 }
 
 export async function databaseKind(): Promise<Opened['kind']> {

@@ -12,7 +12,7 @@ import {
 	type SiteRow
 } from '../../schemas/csv-import';
 import type { SiteFlags } from '../db/schema';
-import { getDb, type Db } from '../db';
+import { getDb, tidyAfterBulkLoad, type Db } from '../db';
 import { customers, sites } from '../db/schema';
 import { Invalid } from './errors';
 
@@ -254,7 +254,7 @@ export async function importCsv(
 	input: { customers: string; sites: string }
 ): Promise<{ customers: number; sites: number }> {
 	const db = await getDb();
-	return db.transaction(async (tx) => {
+	const added = await db.transaction(async (tx) => {
 		const c = await check(tx, companyId, input);
 		if (c.problems.length) {
 			throw new Invalid(
@@ -295,4 +295,6 @@ export async function importCsv(
 		}
 		return { customers: c.customers.length, sites: c.sites.length };
 	});
+	await tidyAfterBulkLoad();
+	return added;
 }
