@@ -167,6 +167,57 @@ describe('POST /api/roof-plans refuses bad geometry', () => {
 		expect(await versionCount()).toBe(before);
 	});
 
+	it('refuses a malformed growth suggestion on a facet with 400 naming it, and keeps a good one', async () => {
+		const before = await versionCount();
+		const good = {
+			grade: 'G2',
+			confidence: 0.73,
+			measures: {
+				pixels: 6972,
+				cleanLevel: 118,
+				streakShare: 0.21,
+				heavyShare: 0.04,
+				contrast: 0.3,
+				score: 41
+			}
+		};
+		const bad: [unknown, RegExp][] = [
+			[{ ...good, grade: 'G9' }, /suggested growth grade must be one of: G0, G1, G2, G3, G4/],
+			[{ ...good, confidence: 1.5 }, /suggestion confidence must be between 0 and 1/],
+			[
+				{ ...good, measures: { ...good.measures, pixels: 'many' } },
+				/suggestion pixel count must be a finite number/
+			],
+			[{ ...good, source: 'elsewhere' }, /unknown field in growth suggestion: source/],
+			['G2', /growth suggestion must be an object with grade, confidence and measures/]
+		];
+		for (const [growthSuggestion, reason] of bad) {
+			const r = await call(
+				'POST',
+				'/api/roof-plans',
+				estimator,
+				plan([scene[0], { ...scene[1], growthSuggestion }])
+			);
+			expect(r.status, JSON.stringify(growthSuggestion)).toBe(400);
+			const issues = r.body.issues as { path: string; message: string }[];
+			expect(issues.every((i) => i.path.startsWith('facets.1.growthSuggestion'))).toBe(true);
+			expect(issues.map((i) => i.message).join(' ')).toMatch(reason);
+		}
+		expect(await versionCount()).toBe(before);
+
+		const ok = await call(
+			'POST',
+			'/api/roof-plans',
+			estimator,
+			plan([scene[0], { ...scene[1], growthSuggestion: good }])
+		);
+		expect(ok.status).toBe(201);
+		saves++;
+		const back = await call('GET', `/api/roof-plans/${ok.body.plan.id}`, estimator);
+		expect(back.body.plan.facets[1].growthSuggestion).toEqual(good);
+		expect(back.body.plan.facets[0].growthSuggestion).toBeUndefined();
+	});
+
 	it('a body that is not JSON or too large: 415 / 413, nothing stored', async () => {
 		const before = await versionCount();
 		const form = await call('POST', '/api/roof-plans', estimator, undefined, {
